@@ -1,0 +1,40 @@
+//! calor: option valuation that can be embedded anywhere and proven right.
+//!
+//! Black–Scholes–Merton prices and all fifteen Greeks that keep their digits far
+//! out of the money and near expiry. `#![no_std]`, no allocation, no panics, no
+//! `unsafe`; the only dependency is `libm`.
+//!
+//! The model assumes a lognormal underlying with constant volatility, rate and
+//! continuous dividend yield and European exercise. Its outputs are not advice;
+//! see the README for the cautions that go with deploying it.
+//!
+//! # Examples
+//! ```
+//! use calor::{greeks, price, Contract, Kind, Market};
+//! let c = Contract { kind: Kind::Put, strike: 95.0, expiry: 0.5 };
+//! let m = Market { spot: 100.0, rate: 0.1, dividend_yield: 0.05 };
+//! let v = price(&c, &m, 0.2)?;
+//! assert!((v - 2.464787646755).abs() < 1e-11);
+//! assert_eq!(greeks(&c, &m, 0.2)?.price, v);
+//! # Ok::<(), calor::Error>(())
+//! ```
+#![no_std]
+#![forbid(unsafe_code)]
+#![deny(missing_docs)]
+#![deny(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::panic,
+    clippy::indexing_slicing
+)]
+
+mod black;
+mod contract;
+mod error;
+mod greeks;
+mod normal;
+
+pub use black::price;
+pub use contract::{Contract, Greeks, Kind, Market};
+pub use error::{Error, Field};
+pub use greeks::greeks;
