@@ -109,7 +109,9 @@ impl Setup {
         let abs_x = libm::fabs(self.x);
         let otm = otm_value(abs_x, self.s, small, large);
         if self.in_the_money() {
-            otm + forward_intrinsic(small, large, abs_x)
+            // large − small is exact when large ≤ 2·small (Sterbenz) and free of
+            // cancellation otherwise: the forward intrinsic value.
+            otm + (large - small)
         } else {
             otm
         }
@@ -150,15 +152,6 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
         scaled(0.5 * libm::sqrt(small) * libm::sqrt(large) * gap, decay)
     } else {
         (small * norm_cdf(h + t) - large * norm_cdf(h - t)).max(0.0)
-    }
-}
-
-/// large − small = small·(e^|x| − 1), computed without cancellation.
-fn forward_intrinsic(small: f64, large: f64, abs_x: f64) -> f64 {
-    if abs_x <= 1.0 {
-        small * libm::expm1(abs_x)
-    } else {
-        large - small
     }
 }
 

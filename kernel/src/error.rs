@@ -83,6 +83,12 @@ pub enum Error {
     /// Greeks at zero volatility or zero expiry with the forward exactly at
     /// the strike: gamma and its relatives diverge there.
     SingularAtStrike,
+    /// The premium is at or below the no-arbitrage lower bound
+    /// max(0, ±(S·e^(−qT) − K·e^(−rT))): no volatility reproduces it.
+    PremiumBelowIntrinsic,
+    /// The premium is at or above the no-arbitrage upper bound (S·e^(−qT) for a
+    /// call, K·e^(−rT) for a put): no volatility reproduces it.
+    PremiumAboveMaximum,
     /// The result exceeds the range of `f64` (for example a put struck near
     /// `f64::MAX` under a negative rate).
     Overflow,
@@ -97,6 +103,12 @@ impl fmt::Display for Error {
             Error::SingularAtStrike => f.write_str(
                 "vol: Greeks diverge at zero volatility or expiry with the forward at the strike",
             ),
+            Error::PremiumBelowIntrinsic => {
+                f.write_str("premium: at or below the discounted intrinsic value of the forward")
+            }
+            Error::PremiumAboveMaximum => {
+                f.write_str("premium: at or above the no-arbitrage maximum of the option")
+            }
             Error::Overflow => f.write_str("result: exceeds the range of f64"),
         }
     }

@@ -133,7 +133,10 @@ fn deterministic(p: &Setup) -> Result<Greeks, Error> {
     }
     let price = p.value();
     if !p.in_the_money() {
-        return Ok(Greeks { price, ..Greeks::default() });
+        return Ok(Greeks {
+            price,
+            ..Greeks::default()
+        });
     }
     let (w, t) = (p.omega, p.expiry);
     Ok(Greeks {

@@ -32,9 +32,11 @@ mod black;
 mod contract;
 mod error;
 mod greeks;
+mod implied;
 mod normal;
 
 pub use black::price;
 pub use contract::{Contract, Greeks, Kind, Market};
 pub use error::{Error, Field};
 pub use greeks::greeks;
+pub use implied::{implied_vol, solve_implied_vol, ImpliedVol, MAX_ITERATIONS};

@@ -1,0 +1,7 @@
+//! The `calor` command: see `calor --help`.
+
+use std::process::ExitCode;
+
+fn main() -> ExitCode {
+    calor_harness::cli::main()
+}
