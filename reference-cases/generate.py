@@ -28,8 +28,8 @@ from mpmath import mp, mpf
 mp.dps = 60  # sampling and bookkeeping; evaluations set their own precision
 
 INPUTS = ('spot', 'strike', 'expiry', 'rate', 'dividend_yield', 'vol')
-STEP = mpmath.ldexp(1, -52)  # step of every mpmath.diff call, in natural units
-GREEK_DIGITS = 80  # + dynamic range; third differences divide noise by STEP**3
+STEP = mpmath.ldexp(1, -54)  # step of every mpmath.diff call, in natural units
+GREEK_DIGITS = 84  # + dynamic range; third differences divide noise by STEP**3
 FIRST_DIGITS = 80  # + dynamic range; first derivatives only
 TINY, HUGE = mpf('1e-300'), mpf('1e300')
 DAY, HOUR = 1 / 365, 1 / 8760
@@ -50,14 +50,14 @@ FIRST = {name: tuple(int(i == j) for j in range(6)) for i, name in enumerate(INP
 DOMAIN = {'spot': (1e-3, 1e6), 'expiry': (HOUR, 50.0), 'vol': (0.001, 5.0),
           'rate': (-0.05, 0.30), 'dividend_yield': (0.0, 0.20)}
 STRATA = (
-    ('near_money', 750, {}, (0, 1)),
-    ('wings', 750, {}, (1, 6)),
-    ('deep_tails', 1550, {}, (6, 37.5)),
-    ('short_expiry', 610, {'expiry': (HOUR, DAY)}, (0, 10)),
-    ('long_expiry', 610, {'expiry': (20.0, 50.0)}, (0, 10)),
-    ('low_vol', 610, {'vol': (0.001, 0.02)}, (0, 10)),
-    ('high_vol', 610, {'vol': (1.5, 5.0)}, (0, 10)),
-    ('extreme_scale', 610, {'spot': (1e-100, 1e100)}, (0, 6)),
+    ('near_money', 740, {}, (0, 1)),
+    ('wings', 740, {}, (1, 6)),
+    ('deep_tails', 1520, {}, (6, 37.5)),
+    ('short_expiry', 600, {'expiry': (HOUR, DAY)}, (0, 10)),
+    ('long_expiry', 600, {'expiry': (20.0, 50.0)}, (0, 10)),
+    ('low_vol', 600, {'vol': (0.001, 0.02)}, (0, 10)),
+    ('high_vol', 600, {'vol': (1.5, 5.0)}, (0, 10)),
+    ('extreme_scale', 600, {'spot': (1e-100, 1e100)}, (0, 6)),
 )
 EXTREME_MAX_LOG_RATIO = 3  # extreme_scale: |ln(K/S)| <= 3
 

@@ -19,11 +19,14 @@ pub struct Cli {
 pub enum Command {
     /// Value one European option: its price and all fifteen Greeks.
     Price(PriceArgs),
+    /// The volatility that reproduces a premium, with the iterations it took.
+    Implied(ImpliedArgs),
 }
 
-/// Inputs of `calor price`. Rates and yields are continuously compounded, per year.
+/// The option and its market, shared by the subcommands. Rates and yields are
+/// continuously compounded, per year.
 #[derive(Debug, Clone, Copy, Args)]
-pub struct PriceArgs {
+pub struct OptionArgs {
     /// Call or put.
     #[arg(long, value_enum)]
     pub kind: KindArg,
@@ -42,9 +45,43 @@ pub struct PriceArgs {
     /// Continuous dividend yield q (foreign rate for currencies, r for futures).
     #[arg(long, default_value_t = 0.0, allow_negative_numbers = true)]
     pub dividend_yield: f64,
+}
+
+impl OptionArgs {
+    /// The kernel's contract.
+    pub fn contract(&self) -> calor::Contract {
+        calor::Contract { kind: self.kind.into(), strike: self.strike, expiry: self.expiry }
+    }
+
+    /// The kernel's market.
+    pub fn market(&self) -> calor::Market {
+        calor::Market { spot: self.spot, rate: self.rate, dividend_yield: self.dividend_yield }
+    }
+}
+
+/// Inputs of `calor price`.
+#[derive(Debug, Clone, Copy, Args)]
+pub struct PriceArgs {
+    /// The option and its market.
+    #[command(flatten)]
+    pub option: OptionArgs,
     /// Volatility σ per year, e.g. 0.2 for 20 %.
     #[arg(long, allow_negative_numbers = true)]
     pub vol: f64,
+    /// Print one JSON object instead of the table.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// Inputs of `calor implied`.
+#[derive(Debug, Clone, Copy, Args)]
+pub struct ImpliedArgs {
+    /// The option and its market.
+    #[command(flatten)]
+    pub option: OptionArgs,
+    /// The option's premium, in the currency of the spot.
+    #[arg(long, allow_negative_numbers = true)]
+    pub premium: f64,
     /// Print one JSON object instead of the table.
     #[arg(long)]
     pub json: bool,
@@ -80,6 +117,7 @@ pub fn main() -> ExitCode {
 pub fn run(cli: &Cli) -> ExitCode {
     let outcome = match &cli.command {
         Command::Price(args) => crate::price::run(args),
+        Command::Implied(args) => crate::implied::run(args),
     };
     // Written without `println!`, which panics when stdout is a closed pipe.
     match outcome {

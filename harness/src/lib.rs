@@ -7,5 +7,6 @@
 pub mod cases;
 pub mod certify;
 pub mod cli;
+pub mod implied;
 pub mod price;
 pub mod tolerance;

@@ -51,16 +51,7 @@ struct Report<'a> {
 /// # Errors
 /// The kernel's refusal, displayed as `<field>: <reason>`, or a JSON encoding failure.
 pub fn run(args: &PriceArgs) -> Result<String, String> {
-    let contract = Contract {
-        kind: args.kind.into(),
-        strike: args.strike,
-        expiry: args.expiry,
-    };
-    let market = Market {
-        spot: args.spot,
-        rate: args.rate,
-        dividend_yield: args.dividend_yield,
-    };
+    let (contract, market) = (args.option.contract(), args.option.market());
     let greeks = calor::greeks(&contract, &market, args.vol).map_err(|e| e.to_string())?;
     if args.json {
         let report = Report {

@@ -82,7 +82,9 @@ impl Setup {
             vol,
             sqrt_t,
             s: vol * sqrt_t,
-            x: log_ratio(spot, strike) + (rate - dividend_yield) * expiry,
+            // Fused steps leave only the roundings of the logarithm and of one sum
+            // of terms that largely cancel when the forward is near the strike.
+            x: libm::fma(rate, expiry, libm::fma(-dividend_yield, expiry, log_ratio(spot, strike))),
             dq,
             spot_leg: spot * dq,
             strike_leg: strike * libm::exp(-rate * expiry),
@@ -118,10 +120,14 @@ impl Setup {
     }
 }
 
-/// ln(a/b) without overflow of the ratio.
+/// ln(a/b), exact to rounding near a = b and without overflow of the ratio.
 fn log_ratio(a: f64, b: f64) -> f64 {
     let ratio = a / b;
-    if ratio.is_normal() {
+    if (0.5..=2.0).contains(&ratio) {
+        // a − b is exact here (Sterbenz), so only the division rounds: the error is
+        // ε·|ln(a/b)| instead of the ε of a logarithm evaluated next to 1.
+        libm::log1p((a - b) / b)
+    } else if ratio.is_normal() {
         libm::log(ratio)
     } else {
         libm::log(a) - libm::log(b)
@@ -135,6 +141,25 @@ pub(crate) fn scaled(m: f64, decay: f64) -> f64 {
     } else {
         let half = libm::exp(-0.5 * decay);
         m * half * half
+    }
+}
+
+/// The two terms of the out-of-the-money value, small·Φ(h + t) and
+/// large·Φ(h − t), whose difference is that value; in the lower wing both are
+/// written through erfcx with the common factor √(small·large)·exp(−(h² + t²)/2)
+/// so that neither underflows before the product would.
+pub(crate) fn otm_terms(abs_x: f64, s: f64, small: f64, large: f64) -> (f64, f64) {
+    let h = -abs_x / s;
+    let t = 0.5 * s;
+    if h + t < ERFCX_BELOW {
+        let common = 0.5 * libm::sqrt(small) * libm::sqrt(large);
+        let decay = 0.5 * (h * h + t * t);
+        (
+            scaled(common * scaled_erfc(-(h + t) * FRAC_1_SQRT_2), decay),
+            scaled(common * scaled_erfc((t - h) * FRAC_1_SQRT_2), decay),
+        )
+    } else {
+        (small * norm_cdf(h + t), large * norm_cdf(h - t))
     }
 }
 

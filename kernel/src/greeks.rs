@@ -31,7 +31,7 @@
 //! not trust this table: the references are numerical derivatives of the price
 //! at 50 digits.
 
-use crate::black::{scaled, Setup};
+use crate::black::{otm_terms, scaled, Setup};
 use crate::contract::{Contract, Greeks, Market};
 use crate::error::Error;
 use crate::normal::{norm_cdf, INV_SQRT_2PI};
@@ -88,20 +88,31 @@ fn diffusive(p: &Setup) -> Greeks {
     let h = p.x / s;
     let half = 0.5 * s;
     let (d1, d2) = (h + half, h - half);
-    let cdf1 = norm_cdf(w * d1);
-    let cdf2 = norm_cdf(w * d2);
+    // S·e^(−qT)·Φ(ωd1) and K·e^(−rT)·Φ(ωd2). For the out-of-the-money option
+    // they are the two terms of its value, taken in scaled form so that they
+    // keep their digits (and do not underflow) deep in the wing.
     let (small, large) = p.otm_legs();
+    let (spot_term, strike_term) = if p.in_the_money() {
+        (p.spot_leg * norm_cdf(w * d1), p.strike_leg * norm_cdf(w * d2))
+    } else {
+        let (near, far) = otm_terms(libm::fabs(p.x), s, small, large);
+        if w > 0.0 {
+            (near, far)
+        } else {
+            (far, near)
+        }
+    };
     let a = scaled(
         INV_SQRT_2PI * libm::sqrt(small) * libm::sqrt(large),
         0.5 * (h * h + half * half),
     );
     let mut g = Greeks {
         price: p.value(),
-        delta: w * p.dq * cdf1,
-        theta: w * (q * p.spot_leg * cdf1 - r * p.strike_leg * cdf2),
-        rho: w * t * p.strike_leg * cdf2,
-        dividend_rho: -w * t * p.spot_leg * cdf1,
-        charm: w * q * p.dq * cdf1,
+        delta: w * spot_term / spot,
+        theta: w * (q * spot_term - r * strike_term),
+        rho: w * t * strike_term,
+        dividend_rho: -w * t * spot_term,
+        charm: w * q * spot_term / spot,
         ..Greeks::default()
     };
     // Past the density's underflow every φ term is exactly 0; skipping them

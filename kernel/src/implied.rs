@@ -43,7 +43,7 @@ use crate::error::{Error, Field};
 use crate::normal::{norm_cdf, scaled_erfc, INV_SQRT_2PI};
 
 /// The most Householder iterations [`implied_vol`] ever takes.
-pub const MAX_ITERATIONS: u32 = 2;
+pub const MAX_ITERATIONS: u32 = 3;
 
 /// Below this h + t the Φ terms of b cancel and the erfcx form takes over.
 const ERFCX_BELOW: f64 = -1.0;

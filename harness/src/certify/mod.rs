@@ -1,6 +1,7 @@
 //! Measuring the kernel against the reference tables, in units of tolerance.
 
 pub mod black;
+pub mod implied;
 
 use std::fmt;
 
