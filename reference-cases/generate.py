@@ -32,6 +32,7 @@ STEP = mpmath.ldexp(1, -54)  # step of every mpmath.diff call, in natural units
 GREEK_DIGITS = 84  # + dynamic range; third differences divide noise by STEP**3
 FIRST_DIGITS = 80  # + dynamic range; first derivatives only
 TINY, HUGE = mpf('1e-300'), mpf('1e300')
+RESOLUTION = 64 * 2.0 ** -52  # implied.csv: least distance of a premium from a bound
 DAY, HOUR = 1 / 365, 1 / 8760
 
 # name, derivative orders over INPUTS, sign (theta-like Greeks are -d/dT)
@@ -75,7 +76,7 @@ def normal_cdf(z):
     only to the digits that survive next to 1 (far faster, equally accurate)."""
     if z <= 0:
         return mp.erfc(-z / mp.sqrt(2)) / 2
-    with mp.workprec(max(mp.prec - int(z * z * 0.72), 53)):  # tail < 2**(-0.72 z^2)
+    with mp.workprec(max(mp.prec + 20 - int(z * z * 0.72), 53)):  # tail < 2**(-0.72 z^2)
         tail = mp.erfc(z / mp.sqrt(2)) / 2
     return 1 - tail
 
@@ -141,7 +142,7 @@ class Valuation:
                 self.memo[u] = price(self.kind, *y)
         return self.memo[u]
 
-    def price(self):
+    def value(self):
         return self.bumped(*[mpf(0)] * 6)
 
     def derivative(self, orders):
@@ -153,7 +154,7 @@ class Valuation:
 
     def kappa(self):
         total = sum(abs(xi * self.derivative(FIRST[n])) for xi, n in zip(self.x, INPUTS))
-        return total / abs(self.price())
+        return total / abs(self.value())
 
 
 def fmt(value):
@@ -188,7 +189,7 @@ def draw(rng, ranges, moneyness):
     strike = float(S * mp.exp((r - q) * T - z * v * mp.sqrt(T)))
     if not 1e-300 <= strike <= 1e300:
         return None
-    if 'spot' in ranges and abs(mp.log(strike / S)) > EXTREME_MAX_LOG_RATIO:
+    if 'spot' in ranges and abs(mp.log(strike / S)) > EXTREME_MAX_LOG_RATIO:  # extreme_scale
         return None
     z = (mp.log(S / strike) + (r - q) * T) / (v * mp.sqrt(T))
     if not lo <= abs(z) <= hi:
@@ -200,7 +201,7 @@ def greeks_row(kind, inputs):
     val = Valuation(kind, inputs, GREEK_DIGITS)
     if not val.floor >= TINY:
         return None
-    values = [val.price()] + [sign * val.derivative(orders) for _, orders, sign in GREEKS]
+    values = [val.value()] + [sign * val.derivative(orders) for _, orders, sign in GREEKS]
     values.append(val.kappa())
     return [fmt(v) for v in values] if representable(values) else None
 
@@ -209,20 +210,24 @@ def implied_row(kind, inputs):
     val = Valuation(kind, inputs, FIRST_DIGITS)
     if not val.floor >= TINY:
         return None
-    value = val.price()
+    value = val.value()
     premium = float(value)
     S, K, T, r, q, _ = val.x
     with mp.workdps(val.digits):
         fs, fk = S * mp.exp(-q * T), K * mp.exp(-r * T)
         lower, upper = (max(0, fs - fk), fs) if kind == 'call' else (max(0, fk - fs), fk)
-    if not (lower < premium < upper and premium >= 1e-300):
+    # A premium within RESOLUTION (relative) of a bound carries too little of the
+    # time value to determine a volatility in f64, and the bounds themselves are
+    # only known to a few ulps there; such premiums are not sampled.
+    if not (premium - lower > RESOLUTION * premium and upper - premium > RESOLUTION * upper
+            and premium >= 1e-300):
         return None
     values = [value, val.derivative(FIRST['vol']), val.kappa()]
     return [repr(premium)] + [fmt(v) for v in values] if representable(values) else None
 
 
 def write_sampled(path, header, prefix, seed, make_row):
-    rows, counts, start = [], {}, time.time()
+    rows, start = [], time.time()
     for name, count, ranges, moneyness in STRATA:
         rng, tries = Random(f'{seed}-{name}'), 0
         for _ in range(count):
@@ -234,7 +239,6 @@ def write_sampled(path, header, prefix, seed, make_row):
                     break
             kind, inputs = case
             rows.append([name, kind] + [repr(v) for v in inputs] + row)
-        counts[name] = count
         print(f'{os.path.basename(path)}: {name}: {count} rows from {tries} draws '
               f'({time.time() - start:.0f} s)', file=sys.stderr)
     write_csv(path, header, [[f'{prefix}{i:05d}'] + r for i, r in enumerate(rows, 1)])
@@ -291,9 +295,6 @@ TEXTBOOK = (
 )
 # E07: dividends of 0.5 at 2/12 and 5/12; escrowed model, spot less their PV at r
 E07_DIVIDENDS = (('2/12', '0.5'), ('5/12', '0.5'))
-TEXTBOOK_QUANTITY = {'price': None, 'delta': ('delta', 1), 'gamma': ('gamma', 1),
-                     'vega': ('vega', 1), 'theta': ('theta', 1), 'rho': ('rho', 1),
-                     'dividend_rho': ('dividend_rho', 1), 'carry_rho': ('dividend_rho', -1)}
 
 
 def decimal_value(text):
@@ -322,9 +323,10 @@ def textbook_row(row):
         premium, vol = '', float(decimal_value(last))
         val = Valuation(kind, (spot, strike, expiry, rate, dividend_yield, vol), GREEK_DIGITS)
         if quantity == 'price':
-            ours = val.price()
+            ours = val.value()
         else:
-            name, sign = TEXTBOOK_QUANTITY[quantity]
+            # carry_rho is dV/db at fixed r, and q = r - b
+            name, sign = ('dividend_rho', -1) if quantity == 'carry_rho' else (quantity, 1)
             orders, greek_sign = next((o, g) for n, o, g in GREEKS if n == name)
             ours = sign * greek_sign * val.derivative(orders) * mpf(scale)
     decimals = len(printed.partition('.')[2])
@@ -351,6 +353,9 @@ TABLES = ('black/greeks.csv', 'black/implied.csv', 'textbook/european.csv')
 
 
 def main():
+    if mpmath.__version__ != '1.3.0':
+        print(f'warning: tables were made with mpmath 1.3.0, this is {mpmath.__version__}',
+              file=sys.stderr)
     here = os.path.dirname(os.path.abspath(__file__))
     parser = argparse.ArgumentParser(description=__doc__.split('\n\n')[0])
     parser.add_argument('--out', default=here, help='output folder (default: this folder)')

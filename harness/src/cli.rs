@@ -21,6 +21,8 @@ pub enum Command {
     Price(PriceArgs),
     /// The volatility that reproduces a premium, with the iterations it took.
     Implied(ImpliedArgs),
+    /// One option on a ladder of finer and finer grids: a convergence table.
+    Grid(crate::grid::GridArgs),
 }
 
 /// The option and its market, shared by the subcommands. Rates and yields are
@@ -50,12 +52,20 @@ pub struct OptionArgs {
 impl OptionArgs {
     /// The kernel's contract.
     pub fn contract(&self) -> calor::Contract {
-        calor::Contract { kind: self.kind.into(), strike: self.strike, expiry: self.expiry }
+        calor::Contract {
+            kind: self.kind.into(),
+            strike: self.strike,
+            expiry: self.expiry,
+        }
     }
 
     /// The kernel's market.
     pub fn market(&self) -> calor::Market {
-        calor::Market { spot: self.spot, rate: self.rate, dividend_yield: self.dividend_yield }
+        calor::Market {
+            spot: self.spot,
+            rate: self.rate,
+            dividend_yield: self.dividend_yield,
+        }
     }
 }
 
@@ -118,6 +128,7 @@ pub fn run(cli: &Cli) -> ExitCode {
     let outcome = match &cli.command {
         Command::Price(args) => crate::price::run(args),
         Command::Implied(args) => crate::implied::run(args),
+        Command::Grid(args) => crate::grid::run(args),
     };
     // Written without `println!`, which panics when stdout is a closed pipe.
     match outcome {

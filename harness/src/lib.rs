@@ -7,6 +7,7 @@
 pub mod cases;
 pub mod certify;
 pub mod cli;
+pub mod grid;
 pub mod implied;
 pub mod price;
 pub mod tolerance;

@@ -40,12 +40,11 @@ pub const GREEK: Tolerance = Tolerance {
 pub const THIRD_ORDER: Tolerance = Tolerance {
     quantity: "third_order",
     limit: 128.0,
-    reason: "third derivatives carry brackets such as d1·d2 − 1 or 1 + d1/s that pass \
-             through zero where the price itself is well conditioned; there the rounding \
-             of ln(F/K) (one ulp of the logarithm) is amplified by the bracket's own \
-             condition, which κ of the price does not measure. Worst seen on the shipped \
-             table: zomma at 81 units (g04589, forward 2 % from the strike, σ√T = 0.018, \
-             d1·d2 − 1 ≈ 1e-3); limit set at 128 as the documented reach",
+    reason: "eight times the second-order limit: third derivatives carry brackets of \
+             degree up to four in d1 and d2 (d1·d2 − 1, 1 + d1/s, ...) that pass through \
+             zero where the price itself is well conditioned, so the rounding of ln(F/K) is \
+             amplified by the bracket's own condition, which κ of the price does not \
+             measure. Worst seen on the shipped table: 29 units (zomma, g03699)",
 };
 
 /// Implied volatility, forward error: |σ̂ − σ| in units of
@@ -67,6 +66,60 @@ pub const REPRICING: Tolerance = Tolerance {
              forward error of σ̂ (16 units plus 4·ε·σ·vega/V ≤ 4 units), plus the half ulp of \
              rounding in the premium",
 };
+
+/// Worked examples: |ours − recomputed| in units of ε·max(1, |recomputed|).
+pub const TEXTBOOK: Tolerance = Tolerance {
+    quantity: "textbook",
+    limit: 512.0,
+    reason: "the worked examples sit near the money with κ below about 30, so the price \
+             and Greek contracts put them within 16·(1+κ)·ε ≈ 500·ε of the 30-digit \
+             recomputation; the printed value itself is checked to half its last decimal",
+};
+
+/// A case known to miss its tolerance, with the reason. It is measured like
+/// any other, must still fail (a case that starts passing must be taken off
+/// this list), and is reported apart from the worst errors.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct ExpectedFailure {
+    /// Id of the case in its table.
+    pub case_id: &'static str,
+    /// The quantity that misses.
+    pub quantity: &'static str,
+    /// Why it misses.
+    pub reason: &'static str,
+}
+
+/// Why the forward-at-the-money cases below miss: the forward sits at the
+/// strike only because ln(S/K) ≈ 3.8 cancels against (r − q)·T ≈ −3.8, so one
+/// ulp of the logarithm (about 4e-16) is an error of ~150 ulps in h = x/s with
+/// σ√T ≈ 0.02; charm's bracket (2(r−q)T − s·d2) and color's
+/// (q + d1·∂d1/∂T + 1/(2T)) nearly cancel there and amplify it beyond the
+/// price's κ. No f64 evaluation from these inputs does better without a
+/// logarithm correct to a fraction of an ulp.
+const FORWARD_ATM_BY_CANCELLATION: &str = "forward at the strike by cancellation of \
+    ln(S/K) ≈ 3.8 against (r − q)·T: one ulp of the logarithm, amplified by the \
+    Greek's nearly cancelling bracket, exceeds the price's κ";
+
+/// The known misses of `black/greeks.csv`.
+pub const EXPECTED_FAILURES: &[ExpectedFailure] = &[
+    ExpectedFailure {
+        case_id: "g03981",
+        quantity: "charm",
+        reason: FORWARD_ATM_BY_CANCELLATION,
+    },
+    ExpectedFailure {
+        case_id: "g04685",
+        quantity: "color",
+        reason: FORWARD_ATM_BY_CANCELLATION,
+    },
+];
+
+/// The expected failure for a case and quantity, if it is one.
+pub fn expected_failure(case_id: &str, quantity: &str) -> Option<&'static ExpectedFailure> {
+    EXPECTED_FAILURES
+        .iter()
+        .find(|x| x.case_id == case_id && x.quantity == quantity)
+}
 
 /// The natural scale s_g of each Greek, built from the price V, spot S, vol σ
 /// and expiry T, so that a Greek that passes through zero is judged on the

@@ -11,8 +11,16 @@ fn ref_implied_round_trips() {
     let outcome = measure_implied(&cases);
     println!("{}\n{}", outcome.forward, outcome.backward);
     println!("cases by iterations used: {:?}", outcome.iteration_counts);
-    assert!(outcome.forward.passes(), "forward error over tolerance: {:#?}", outcome.forward);
-    assert!(outcome.backward.passes(), "repricing error over tolerance: {:#?}", outcome.backward);
+    assert!(
+        outcome.forward.passes(),
+        "forward error over tolerance: {:#?}",
+        outcome.forward
+    );
+    assert!(
+        outcome.backward.passes(),
+        "repricing error over tolerance: {:#?}",
+        outcome.backward
+    );
 }
 
 #[test]

@@ -8,8 +8,8 @@
 //!
 //! Only the out-of-the-money side (x ≤ 0 in normalised form) is ever
 //! evaluated; an in-the-money price is that value plus the forward intrinsic
-//! value (put–call parity), a sum of two positive numbers. Deep out of the money
-//! (h + t < −1) the two Φ terms would cancel, so they are rewritten with the
+//! value (put–call parity), a sum of two positive numbers. Far out of the money
+//! (h + t < −2) the two Φ terms would cancel, so they are rewritten with the
 //! scaled complementary error function erfcx:
 //! b = ½·exp(−(h² + t²)/2)·[erfcx(−(h + t)/√2) − erfcx((t − h)/√2)],
 //! where the exponential factor is common to both terms and is applied last,
@@ -31,10 +31,20 @@ use core::f64::consts::FRAC_1_SQRT_2;
 
 use crate::contract::{validate, Contract, Kind, Market};
 use crate::error::Error;
-use crate::normal::{norm_cdf, scaled_erfc};
+use crate::normal::{norm_cdf, scaled_erfc, two_product};
 
-/// Below this h + t the two Φ terms of b cancel and the erfcx form takes over.
-const ERFCX_BELOW: f64 = -1.0;
+/// Below this h + t the Φ terms of the central formula would lose too much:
+/// each carries the rounding of its argument amplified by (h ± t)², and their
+/// difference amplifies that again by |h|/s. The erfcx form applies the common
+/// factor exp(−(h² + t²)/2) after the difference instead, where erfcx itself is
+/// insensitive to its argument.
+const ERFCX_BELOW: f64 = -2.0;
+
+/// True where the normalised price is evaluated through erfcx.
+pub(crate) fn erfcx_wing(h: f64, t: f64) -> bool {
+    h + t < ERFCX_BELOW
+}
+
 /// exp(−e) underflows past e ≈ 745; beyond this the factor is applied in halves.
 const SPLIT_DECAY_ABOVE: f64 = 700.0;
 
@@ -82,9 +92,7 @@ impl Setup {
             vol,
             sqrt_t,
             s: vol * sqrt_t,
-            // Fused steps leave only the roundings of the logarithm and of one sum
-            // of terms that largely cancel when the forward is near the strike.
-            x: libm::fma(rate, expiry, libm::fma(-dividend_yield, expiry, log_ratio(spot, strike))),
+            x: log_moneyness(spot, strike, rate, dividend_yield, expiry),
             dq,
             spot_leg: spot * dq,
             strike_leg: strike * libm::exp(-rate * expiry),
@@ -120,6 +128,14 @@ impl Setup {
     }
 }
 
+/// x = ln(S/K) + (r − q)·T with exact products, so that only the logarithm and
+/// two sums round: the terms largely cancel when the forward is near the strike.
+fn log_moneyness(spot: f64, strike: f64, rate: f64, dividend_yield: f64, expiry: f64) -> f64 {
+    let (carry_q, err_q) = two_product(-dividend_yield, expiry);
+    let (carry_r, err_r) = two_product(rate, expiry);
+    (log_ratio(spot, strike) + carry_q) + carry_r + (err_q + err_r)
+}
+
 /// ln(a/b), exact to rounding near a = b and without overflow of the ratio.
 fn log_ratio(a: f64, b: f64) -> f64 {
     let ratio = a / b;
@@ -151,7 +167,7 @@ pub(crate) fn scaled(m: f64, decay: f64) -> f64 {
 pub(crate) fn otm_terms(abs_x: f64, s: f64, small: f64, large: f64) -> (f64, f64) {
     let h = -abs_x / s;
     let t = 0.5 * s;
-    if h + t < ERFCX_BELOW {
+    if erfcx_wing(h, t) {
         let common = 0.5 * libm::sqrt(small) * libm::sqrt(large);
         let decay = 0.5 * (h * h + t * t);
         (
@@ -171,7 +187,7 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
     }
     let h = -abs_x / s;
     let t = 0.5 * s;
-    if h + t < ERFCX_BELOW {
+    if erfcx_wing(h, t) {
         let gap = scaled_erfc(-(h + t) * FRAC_1_SQRT_2) - scaled_erfc((t - h) * FRAC_1_SQRT_2);
         let decay = 0.5 * (h * h + t * t);
         scaled(0.5 * libm::sqrt(small) * libm::sqrt(large) * gap, decay)

@@ -5,6 +5,7 @@
 //! column, so that `calor certify` can say exactly what is broken.
 
 pub mod black;
+pub mod textbook;
 
 use std::fmt;
 use std::path::{Path, PathBuf};

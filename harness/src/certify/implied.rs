@@ -11,8 +11,9 @@ pub struct ImpliedOutcome {
     pub forward: Worst,
     /// |price(σ̂) − premium| in units of ε·(1+κ)·V.
     pub backward: Worst,
-    /// Cases whose last correction was still above the convergence threshold
-    /// after [`calor::MAX_ITERATIONS`] iterations.
+    /// Cases that needed more than [`calor::MAX_ITERATIONS`] iterations: one
+    /// more Newton correction from σ̂ (with the kernel's own price and vega)
+    /// would still move it by more than the forward tolerance.
     pub unconverged: Vec<String>,
     /// Cases per number of iterations used (index = iterations).
     pub iteration_counts: Vec<usize>,
@@ -34,10 +35,14 @@ pub fn measure_implied(cases: &[ImpliedCase]) -> ImpliedOutcome {
                 if let Some(n) = iteration_counts.get_mut(r.iterations as usize) {
                     *n += 1;
                 }
-                if r.last_step > 1e-9 {
+                let scale = (1.0 + case.kappa) * case.price / case.vega + case.vol / 4.0;
+                let correction = calor::greeks(&contract, &market, r.vol)
+                    .map_or(f64::INFINITY, |g| (g.price - case.premium) / g.vega);
+                if r.iterations > calor::MAX_ITERATIONS
+                    || !(correction.abs() <= tolerance::IMPLIED_VOL.limit * eps * scale)
+                {
                     unconverged.push(case.id.clone());
                 }
-                let scale = (1.0 + case.kappa) * case.price / case.vega + case.vol / 4.0;
                 let fwd = (r.vol - case.vol).abs() / (eps * scale);
                 let repriced = calor::price(&contract, &market, r.vol).unwrap_or(f64::NAN);
                 let bwd = tolerance::units(repriced, case.premium, case.kappa, 0.0);
@@ -51,11 +56,19 @@ pub fn measure_implied(cases: &[ImpliedCase]) -> ImpliedOutcome {
                 show(case.premium),
                 show(case.vol),
                 show(vol),
-                solved.err().map(|e| format!(" error {e}")).unwrap_or_default()
+                solved
+                    .err()
+                    .map(|e| format!(" error {e}"))
+                    .unwrap_or_default()
             )
         };
         forward.record(fwd, &case.id, detail);
         backward.record(bwd, &case.id, detail);
     }
-    ImpliedOutcome { forward, backward, unconverged, iteration_counts }
+    ImpliedOutcome {
+        forward,
+        backward,
+        unconverged,
+        iteration_counts,
+    }
 }

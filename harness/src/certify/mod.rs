@@ -2,6 +2,7 @@
 
 pub mod black;
 pub mod implied;
+pub mod textbook;
 
 use std::fmt;
 

@@ -1,0 +1,70 @@
+//! Implied volatility: the kernel's bounded solver against a textbook
+//! Newton–bisection solver and the `libm::exp` yardstick, on the same premiums.
+//!
+//! Premiums are the kernel's prices of the benchmark options at their vols, so
+//! both solvers answer the same questions. Run with
+//! `cargo bench -p calor-benches --bench implied`.
+
+use std::hint::black_box;
+
+use criterion::{criterion_group, criterion_main, Criterion, Throughput};
+
+mod common;
+use common::{cases, textbook_implied, Case, Strikes, BATCH};
+
+fn with_premiums(strikes: Strikes, seed: u64) -> Vec<(Case, f64)> {
+    cases(strikes, seed)
+        .into_iter()
+        .filter_map(|c| {
+            let p = calor::price(&c.contract, &c.market, c.vol).ok()?;
+            calor::implied_vol(&c.contract, &c.market, p)
+                .ok()
+                .map(|_| (c, p))
+        })
+        .collect()
+}
+
+fn group(c: &mut Criterion, name: &str, batch: &[(Case, f64)]) {
+    let mut group = c.benchmark_group(name);
+    group.throughput(Throughput::Elements(batch.len() as u64));
+    let exp_args: Vec<f64> = batch
+        .iter()
+        .map(|(c, _)| -c.market.rate * c.contract.expiry)
+        .collect();
+    group.bench_function("libm_exp", |b| {
+        b.iter(|| {
+            black_box(&exp_args)
+                .iter()
+                .fold(0.0, |sum, &x| sum + libm::exp(x))
+        });
+    });
+    group.bench_function("textbook_newton_bisection", |b| {
+        b.iter(|| {
+            black_box(batch)
+                .iter()
+                .fold(0.0, |sum, (c, p)| sum + textbook_implied(c, *p))
+        });
+    });
+    group.bench_function("calor_implied_vol", |b| {
+        b.iter(|| {
+            black_box(batch).iter().fold(0.0, |sum, (c, p)| {
+                sum + calor::implied_vol(&c.contract, &c.market, *p).unwrap_or(f64::NAN)
+            })
+        });
+    });
+    group.finish();
+}
+
+fn near_the_money(c: &mut Criterion) {
+    let batch = with_premiums(Strikes::NearTheMoney, 0x4E47_5803);
+    assert!(batch.len() > BATCH / 2);
+    group(c, "implied_near_the_money", &batch);
+}
+
+fn wings(c: &mut Criterion) {
+    let batch = with_premiums(Strikes::Wings, 0x4E47_5804);
+    group(c, "implied_wings", &batch);
+}
+
+criterion_group!(benches, near_the_money, wings);
+criterion_main!(benches);
