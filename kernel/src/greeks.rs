@@ -93,7 +93,10 @@ fn diffusive(p: &Setup) -> Greeks {
     // keep their digits (and do not underflow) deep in the wing.
     let (small, large) = p.otm_legs();
     let (spot_term, strike_term) = if p.in_the_money() {
-        (p.spot_leg * norm_cdf(w * d1), p.strike_leg * norm_cdf(w * d2))
+        (
+            p.spot_leg * norm_cdf(w * d1),
+            p.strike_leg * norm_cdf(w * d2),
+        )
     } else {
         let (near, far) = otm_terms(libm::fabs(p.x), s, small, large);
         if w > 0.0 {
