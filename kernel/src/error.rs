@@ -49,6 +49,84 @@ impl fmt::Display for Field {
     }
 }
 
+/// The grid or scheme parameter an [`Error::InvalidGrid`] is about.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum GridParameter {
+    /// The node count: at least 3 for a heat step, 5 for a valuation grid.
+    Nodes,
+    /// The time-step count: at least 1.
+    Steps,
+    /// The scheme weight θ: in [0, 1].
+    Theta,
+    /// The Rannacher start-up: at most one per time step.
+    RannacherSteps,
+    /// The exponent of the time grading: in [1, 4].
+    Grading,
+    /// The domain half-width in units of σ√T: finite and at least 1.
+    Width,
+    /// The diffusivity κ: finite and > 0.
+    Kappa,
+    /// The time step Δτ: finite and > 0.
+    TimeStep,
+    /// The node spacing Δx: finite and > 0.
+    SpaceStep,
+    /// The mesh ratio κ·Δτ/Δx²: finite.
+    MeshRatio,
+    /// A Dirichlet end value: finite.
+    Boundary,
+    /// The caller's workspace slice: too short for the grid.
+    Workspace,
+}
+
+impl GridParameter {
+    /// The parameter's name (`nodes`, `steps`, `theta`, ...).
+    ///
+    /// # Examples
+    /// ```
+    /// assert_eq!(calor::GridParameter::RannacherSteps.name(), "rannacher_steps");
+    /// ```
+    pub const fn name(self) -> &'static str {
+        match self {
+            GridParameter::Nodes => "nodes",
+            GridParameter::Steps => "steps",
+            GridParameter::Theta => "theta",
+            GridParameter::RannacherSteps => "rannacher_steps",
+            GridParameter::Grading => "grading",
+            GridParameter::Width => "width",
+            GridParameter::Kappa => "kappa",
+            GridParameter::TimeStep => "time_step",
+            GridParameter::SpaceStep => "space_step",
+            GridParameter::MeshRatio => "mesh_ratio",
+            GridParameter::Boundary => "boundary",
+            GridParameter::Workspace => "workspace",
+        }
+    }
+
+    const fn requirement(self) -> &'static str {
+        match self {
+            GridParameter::Nodes => "too few nodes, or not the size the scheme was factored for",
+            GridParameter::Steps => "must be at least 1",
+            GridParameter::Theta => "must lie in [0, 1]",
+            GridParameter::RannacherSteps => "must not exceed the time steps",
+            GridParameter::Grading => "must lie in [1, 4]",
+            GridParameter::Width => "must be finite and at least 1",
+            GridParameter::Kappa | GridParameter::TimeStep | GridParameter::SpaceStep => {
+                "must be finite and greater than zero"
+            }
+            GridParameter::MeshRatio | GridParameter::Boundary => "not a finite number",
+            GridParameter::Workspace => "slice too short for the grid",
+        }
+    }
+}
+
+impl fmt::Display for GridParameter {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
 /// Why a kernel function refused its input or could not represent its result.
 ///
 /// Every variant that is about one input names it, so a caller can report the
@@ -92,6 +170,14 @@ pub enum Error {
     /// The result exceeds the range of `f64` (for example a put struck near
     /// `f64::MAX` under a negative rate).
     Overflow,
+    /// A grid or scheme parameter is out of its range.
+    InvalidGrid {
+        /// The offending parameter.
+        parameter: GridParameter,
+    },
+    /// The explicit part of a θ-scheme with θ < ½ would amplify errors:
+    /// κ·Δτ/Δx²·(1 − 2θ) > ½ (for the explicit scheme, κ·Δτ/Δx² > ½).
+    UnstableStep,
 }
 
 impl fmt::Display for Error {
@@ -110,6 +196,12 @@ impl fmt::Display for Error {
                 f.write_str("premium: at or above the no-arbitrage maximum of the option")
             }
             Error::Overflow => f.write_str("result: exceeds the range of f64"),
+            Error::InvalidGrid { parameter } => {
+                write!(f, "{parameter}: {}", parameter.requirement())
+            }
+            Error::UnstableStep => f.write_str(
+                "mesh_ratio: the explicit scheme is unstable for kappa*dt/dx^2 above 1/2",
+            ),
         }
     }
 }

@@ -48,7 +48,7 @@ pub const MAX_ITERATIONS: u32 = 3;
 /// Fraction of b_c (or of b_max − b_c) below which the asymptotic guesses apply.
 const ASYMPTOTIC_FRACTION: f64 = 0.25;
 /// A correction this small (relative) leaves an error of order its fourth power.
-const CONVERGED_STEP: f64 = 1e-9;
+const CONVERGED_STEP: f64 = 1e-5;
 /// √π.
 const SQRT_PI: f64 = 1.772_453_850_905_516;
 
@@ -163,26 +163,16 @@ struct Target {
     x: f64,
     b_max: f64,
     beta: f64,
-    ln_beta: f64,
-    /// ln(b_max − β).
-    ln_gap: f64,
+    /// b_max − β, from the unnormalised premium without cancellation.
+    gap: f64,
+    /// ln √(S·e^(−qT)·K·e^(−rT)), the normalisation in log form.
+    ln_root: f64,
+    /// The out-of-the-money premium.
+    otm: f64,
 }
 
-/// b and what the iteration needs of it at one s.
-struct Point {
-    /// b, possibly underflowed.
-    b: f64,
-    /// ln b, exact even when b underflows.
-    ln_b: f64,
-    /// b′/b.
-    slope_ratio: f64,
-    /// b′.
-    slope: f64,
-    /// b″/b′.
-    q2: f64,
-    /// b‴/b′.
-    q3: f64,
-}
+/// What one Householder step needs: ν = −f/f′, h₂ = f″/f′, h₃ = f‴/f′.
+type Terms = (f64, f64, f64);
 
 impl Target {
     fn new(x: f64, otm: f64, small: f64, large: f64) -> Self {
@@ -191,9 +181,15 @@ impl Target {
             x,
             b_max: libm::exp(0.5 * x),
             beta: otm / root,
-            ln_beta: libm::log(otm) - 0.5 * (libm::log(small) + libm::log(large)),
-            ln_gap: libm::log(small - otm) - 0.5 * (libm::log(small) + libm::log(large)),
+            gap: (small - otm) / root,
+            ln_root: 0.5 * (libm::log(small) + libm::log(large)),
+            otm,
         }
+    }
+
+    /// ln β, exact even where β itself would underflow.
+    fn ln_beta(&self) -> f64 {
+        libm::log(self.otm) - self.ln_root
     }
 
     /// The initial guess and the objective that goes with it.
@@ -210,7 +206,8 @@ impl Target {
                 // (erfcx replaced by its rational bound, A&S 7.1.13) puts closer.
                 let tangent = s_c - (b_c - self.beta) / slope_c;
                 let asymptote = self.lower_asymptote(s_c);
-                let miss = |s: f64| libm::fabs(self.model_ln_b(s) - self.ln_beta);
+                let ln_beta = self.ln_beta();
+                let miss = |s: f64| libm::fabs(self.model_ln_b(s) - ln_beta);
                 let s = if tangent > 0.0 && miss(tangent) < miss(asymptote) {
                     tangent
                 } else {
@@ -222,7 +219,7 @@ impl Target {
             }
         } else {
             let gap_c = self.b_max - b_c;
-            if libm::exp(self.ln_gap) < ASYMPTOTIC_FRACTION * gap_c {
+            if self.gap < ASYMPTOTIC_FRACTION * gap_c {
                 (self.upper_asymptote(), Objective::LogComplement)
             } else {
                 (s_c + (self.beta - b_c) / slope_c, Objective::Price)
@@ -233,7 +230,7 @@ impl Target {
     /// Inverts the leading order ln β ≈ −x²/(2s²) − s²/8 for s < s_c.
     fn lower_asymptote(&self, s_c: f64) -> f64 {
         let x2 = self.x * self.x;
-        let r = -self.ln_beta;
+        let r = -self.ln_beta();
         let disc = (r * r - 0.25 * x2).max(0.0);
         // Smaller root of w²/8 − r·w + x²/2 = 0 in w = s², without cancellation.
         let w = x2 / (r + libm::sqrt(disc));
@@ -252,61 +249,60 @@ impl Target {
 
     /// Inverts b_max − β ≈ 2Φ(−s/2).
     fn upper_asymptote(&self) -> f64 {
-        let p = (0.5 * libm::exp(self.ln_gap)).min(0.5);
+        let p = (0.5 * self.gap).min(0.5);
         2.0 * upper_quantile(p)
     }
 
-    fn at(&self, s: f64) -> Point {
+    /// ν, h₂, h₃ of the objective at s, evaluating only what that objective needs.
+    fn householder_terms(&self, s: f64, objective: Objective) -> Terms {
         let x = self.x;
         let h = x / s;
         let t = 0.5 * s;
         let decay = 0.5 * (h * h + t * t);
-        let slope = INV_SQRT_2PI * libm::exp(-decay);
-        let (b, ln_b, slope_ratio) = if erfcx_wing(h, t) {
-            let m = 0.5
-                * (scaled_erfc(-(h + t) * FRAC_1_SQRT_2) - scaled_erfc((t - h) * FRAC_1_SQRT_2));
-            (
-                m * libm::exp(-decay),
-                libm::log(m) - decay,
-                INV_SQRT_2PI / m,
-            )
-        } else {
-            let b = self.b_max * norm_cdf(h + t) - norm_cdf(h - t) / self.b_max;
-            (b, libm::log(b), slope / b)
-        };
         let q2 = x * x / (s * s * s) - 0.25 * s;
         let q3 = q2 * q2 - 3.0 * x * x / (s * s * s * s) - 0.25;
-        Point {
-            b,
-            ln_b,
-            slope_ratio,
-            slope,
-            q2,
-            q3,
-        }
-    }
-
-    /// ν, h₂, h₃ of the objective at s.
-    fn householder_terms(&self, s: f64, objective: Objective) -> (f64, f64, f64) {
-        let pt = self.at(s);
-        match objective {
-            Objective::Price => (-(pt.b - self.beta) / pt.slope, pt.q2, pt.q3),
-            Objective::LogPrice => {
-                let r = pt.slope_ratio;
+        let wing = erfcx_wing(h, t);
+        // b = m·exp(−e): in the wing the common factor stays apart (e = decay).
+        let scaled_price = || {
+            if wing {
+                let m = 0.5
+                    * (scaled_erfc(-(h + t) * FRAC_1_SQRT_2)
+                        - scaled_erfc((t - h) * FRAC_1_SQRT_2));
+                (m, decay)
+            } else {
                 (
-                    -(pt.ln_b - self.ln_beta) / r,
-                    pt.q2 - r,
-                    pt.q3 - 3.0 * r * pt.q2 + 2.0 * r * r,
+                    self.b_max * norm_cdf(h + t) - norm_cdf(h - t) / self.b_max,
+                    0.0,
+                )
+            }
+        };
+        match objective {
+            Objective::Price => {
+                let (m, e) = scaled_price();
+                let slope = INV_SQRT_2PI * libm::exp(-decay);
+                (-(m * libm::exp(-e) - self.beta) / slope, q2, q3)
+            }
+            Objective::LogPrice => {
+                let (m, e) = scaled_price();
+                // b′/b, with the common factor cancelled where it was kept apart.
+                let r = if wing {
+                    INV_SQRT_2PI / m
+                } else {
+                    INV_SQRT_2PI * libm::exp(-decay) / m
+                };
+                (
+                    -(libm::log(m) - e - self.ln_beta()) / r,
+                    q2 - r,
+                    q3 - 3.0 * r * q2 + 2.0 * r * r,
                 )
             }
             Objective::LogComplement => {
-                let (h, t) = (self.x / s, 0.5 * s);
                 let gap = self.b_max * norm_cdf(-(h + t)) + norm_cdf(h - t) / self.b_max;
-                let u = pt.slope / gap;
+                let u = INV_SQRT_2PI * libm::exp(-decay) / gap;
                 (
-                    (libm::log(gap) - self.ln_gap) / u,
-                    pt.q2 + u,
-                    pt.q3 + 3.0 * u * pt.q2 + 2.0 * u * u,
+                    libm::log(gap / self.gap) / u,
+                    q2 + u,
+                    q3 + 3.0 * u * q2 + 2.0 * u * u,
                 )
             }
         }

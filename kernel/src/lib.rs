@@ -32,11 +32,15 @@ mod black;
 mod contract;
 mod error;
 mod greeks;
+mod grid;
+mod heat;
 mod implied;
 mod normal;
 
 pub use black::price;
 pub use contract::{Contract, Greeks, Kind, Market};
-pub use error::{Error, Field};
+pub use error::{Error, Field, GridParameter};
 pub use greeks::greeks;
+pub use grid::{american_price, grid_value, Exercise, GridSpec, GridValue};
+pub use heat::{Factored, HeatGrid, ThetaScheme};
 pub use implied::{implied_vol, solve_implied_vol, ImpliedVol, MAX_ITERATIONS};

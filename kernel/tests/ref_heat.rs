@@ -105,7 +105,7 @@ fn ref_heat_h05_amplification() {
 fn ref_heat_dirichlet_ends_carried() {
     // A linear profile is steady for every θ once its end values are imposed.
     let scheme = ThetaScheme::new(0.5, 2.0, 0.3, 0.1).expect("a valid scheme");
-    let mut u: Vec<f64> = (0..21).map(|j| 1.0 + 0.25 * j as f64).collect();
+    let mut u: Vec<f64> = (0..21).map(|j| 1.0 + 0.25 * f64::from(j)).collect();
     let want = u.clone();
     let mut scratch = vec![0.0; 19];
     for _ in 0..10 {

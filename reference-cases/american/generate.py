@@ -170,6 +170,23 @@ def draw(rng, index):
     return kind, (spot, strike, expiry, rate, dividend_yield, vol)
 
 
+def corners():
+    """The 16 corners of the box in moneyness, expiry, vol and rate.
+
+    Puts and calls by the parity of the corner, so each kind meets both ends
+    of every range; high-vol puts and all calls take the largest dividend yield.
+    """
+    strike = 100.0
+    for index in range(16):
+        bits = [(index >> b) & 1 for b in range(4)]
+        moneyness, expiry, vol, rate = (BOX[name][bit] for name, bit in
+                                        zip(('moneyness', 'expiry', 'vol', 'rate'), bits))
+        kind = 'put' if sum(bits) % 2 == 0 else 'call'
+        dividend_yield = BOX['dividend_yield'][1] if kind == 'call' or bits[2] else 0.0
+        yield f'corner{index:02d}', kind, (round(strike * moneyness, 2), strike, expiry, rate,
+                                           dividend_yield, vol)
+
+
 def row(ident, kind, inputs):
     value, error = reference(kind, *inputs)
     fields = (ident, kind, *(repr(float(x)) for x in inputs), f'{value:.15g}',
@@ -192,11 +209,13 @@ def generate(out):
     for index in range(ROWS):
         kind, inputs = draw(rng, index)
         rows.append(row(f'am{index:03d}', kind, inputs))
+    for ident, kind, inputs in corners():
+        rows.append(row(ident, kind, inputs))
     write(os.path.join(out, 'references.csv'), rows)
     # The converged value of the ladder A01-A05 (notes: about 4.2842).
     write(os.path.join(out, 'published.csv'),
           [row('hull_put_converged', 'put', (50.0, 50.0, 5 / 12, 0.1, 0.0, 0.4))])
-    print(f'{ROWS + 1} references in {time.monotonic() - started:.0f} s', file=sys.stderr)
+    print(f'{len(rows) + 1} references in {time.monotonic() - started:.0f} s', file=sys.stderr)
 
 
 def main():

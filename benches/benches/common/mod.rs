@@ -1,6 +1,8 @@
 //! Inputs and textbook yardsticks shared by the benches.
 //!
 //! Inputs are generated deterministically, so runs on one machine compare.
+//! Every bench target compiles this module and uses only part of it.
+#![allow(dead_code)]
 
 use std::f64::consts::FRAC_1_SQRT_2;
 
