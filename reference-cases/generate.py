@@ -16,6 +16,7 @@ the committed tables (exit status 1 and the differing file on a mismatch).
 import argparse
 import csv
 import filecmp
+import multiprocessing
 import os
 import sys
 import tempfile
@@ -216,31 +217,43 @@ def implied_row(kind, inputs):
     with mp.workdps(val.digits):
         fs, fk = S * mp.exp(-q * T), K * mp.exp(-r * T)
         lower, upper = (max(0, fs - fk), fs) if kind == 'call' else (max(0, fk - fs), fk)
-    # A premium within RESOLUTION (relative) of a bound carries too little of the
-    # time value to determine a volatility in f64, and the bounds themselves are
-    # only known to a few ulps there; such premiums are not sampled.
-    if not (premium - lower > RESOLUTION * premium and upper - premium > RESOLUTION * upper
-            and premium >= 1e-300):
+    # The bounds can only be evaluated in f64 to a few ulps of the discounted legs,
+    # so a premium within RESOLUTION of a bound, relative to the legs, cannot be told
+    # from the bound; such premiums are not sampled. (An out-of-the-money premium
+    # has lower = 0 and keeps its full relative precision however small it is.)
+    legs = max(fs, fk)
+    near_lower = lower > 0 and premium - lower <= RESOLUTION * legs
+    if near_lower or upper - premium <= RESOLUTION * upper or premium < 1e-300:
         return None
     values = [value, val.derivative(FIRST['vol']), val.kappa()]
     return [repr(premium)] + [fmt(v) for v in values] if representable(values) else None
 
 
+def sample_stratum(job):
+    """Rows of one stratum; each stratum has its own seeded generator, so strata can
+    be computed in any order or in parallel and the file is still the same."""
+    seed, make_row, (name, count, ranges, moneyness) = job
+    rng, tries, rows = Random(f'{seed}-{name}'), 0, []
+    for _ in range(count):
+        while True:
+            tries += 1
+            case = draw(rng, ranges, moneyness)
+            row = case and make_row(*case)
+            if row:
+                break
+        kind, inputs = case
+        rows.append([name, kind] + [repr(v) for v in inputs] + row)
+    return name, tries, rows
+
+
 def write_sampled(path, header, prefix, seed, make_row):
     rows, start = [], time.time()
-    for name, count, ranges, moneyness in STRATA:
-        rng, tries = Random(f'{seed}-{name}'), 0
-        for _ in range(count):
-            while True:
-                tries += 1
-                case = draw(rng, ranges, moneyness)
-                row = case and make_row(*case)
-                if row:
-                    break
-            kind, inputs = case
-            rows.append([name, kind] + [repr(v) for v in inputs] + row)
-        print(f'{os.path.basename(path)}: {name}: {count} rows from {tries} draws '
-              f'({time.time() - start:.0f} s)', file=sys.stderr)
+    jobs = [(seed, make_row, stratum) for stratum in STRATA]
+    with multiprocessing.Pool(min(len(jobs), os.cpu_count() or 1)) as pool:
+        for name, tries, stratum_rows in pool.imap(sample_stratum, jobs):
+            rows.extend(stratum_rows)
+            print(f'{os.path.basename(path)}: {name}: {len(stratum_rows)} rows from {tries} '
+                  f'draws ({time.time() - start:.0f} s)', file=sys.stderr)
     write_csv(path, header, [[f'{prefix}{i:05d}'] + r for i, r in enumerate(rows, 1)])
 
 
