@@ -23,6 +23,13 @@ pub enum Command {
     Implied(ImpliedArgs),
     /// One option on a ladder of finer and finer grids: a convergence table.
     Grid(crate::grid::GridArgs),
+    /// Value a CSV book of options: one result row per input row, CSV or JSON lines.
+    Batch(crate::batch::BatchArgs),
+    /// Check the kernel as built against every reference suite and write a certificate.
+    ///
+    /// Exit status 0 when every check passes, 1 when one fails, 2 when the
+    /// reference cases cannot be read or the certificate cannot be written.
+    Certify(crate::certify::command::CertifyArgs),
 }
 
 /// The option and its market, shared by the subcommands. Rates and yields are
@@ -129,6 +136,9 @@ pub fn run(cli: &Cli) -> ExitCode {
         Command::Price(args) => crate::price::run(args),
         Command::Implied(args) => crate::implied::run(args),
         Command::Grid(args) => crate::grid::run(args),
+        // Writes its own output and summary, and has its own exit codes.
+        Command::Batch(args) => return crate::batch::main(args),
+        Command::Certify(args) => return crate::certify::command::run(args),
     };
     // Written without `println!`, which panics when stdout is a closed pipe.
     match outcome {

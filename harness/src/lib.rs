@@ -4,9 +4,11 @@
 //! The kernel itself (`calor`) stays `no_std`; everything that needs an
 //! allocator, files or a terminal lives here.
 
+pub mod batch;
 pub mod cases;
 pub mod certify;
 pub mod cli;
+pub mod fuzz_checks;
 pub mod grid;
 pub mod implied;
 pub mod price;

@@ -76,6 +76,111 @@ pub const TEXTBOOK: Tolerance = Tolerance {
              recomputation; the printed value itself is checked to half its last decimal",
 };
 
+/// Worked examples: |ours − printed| in units of half the last printed decimal.
+pub const PRINTED: Tolerance = Tolerance {
+    quantity: "printed",
+    limit: 1.0 + 1e-9,
+    reason: "a printed value is the exact value rounded to its last decimal, so it is \
+             within half a unit of that decimal; the 1e-9 lets a value that sits exactly on \
+             the rounding boundary pass",
+};
+
+/// American exercise on the default grid: |american_price − reference| / K.
+pub const AMERICAN: Tolerance = Tolerance {
+    quantity: "american",
+    limit: 1e-6,
+    reason: "the promise of calor::american_price on its stated domain: 1e-4 per 100 of \
+             strike, four times the largest uncertainty of the binomial references \
+             (the generator keeps every reference_error below 0.25e-6·K)",
+};
+
+/// The θ-scheme against the exact discrete solution λⁿ·sin(πx_j):
+/// max_j |u_j − λⁿ·sin(πx_j)| in units of ε·n·(1 + 2μ)·max_j |λⁿ·sin(πx_j)|,
+/// n the steps and μ the mesh ratio.
+pub const HEAT_DISCRETE: Tolerance = Tolerance {
+    quantity: "heat_discrete",
+    limit: 4.0,
+    reason: "on a sine the scheme has no truncation error, only rounding: each step rounds \
+             the explicit side, whose weights reach μ, and the Thomas solve, whose diagonal \
+             is 1 + 2θμ, so each step errs by a few ε·(1 + 2μ) of the largest value and the \
+             smooth mode passes that on undamped; |λ| < 1 keeps earlier errors from growing, \
+             so they add up linearly in n. Worst seen: 0.31 units (Crank–Nicolson, μ = 20)",
+};
+
+/// Grid convergence: the order deficit 2 − p of the observed order p, the
+/// smallest log2 ratio of successive errors against the closed form over a
+/// ladder of four grids, each with half the node spacing and time step.
+pub const GRID_ORDER: Tolerance = Tolerance {
+    quantity: "grid_order",
+    limit: 0.2,
+    reason: "Crank–Nicolson with a Rannacher start-up and the cell mean of the payoff is \
+             second order in the node spacing; an observed order of at least 1.8 leaves room \
+             for the higher-order terms on the coarsest rung",
+};
+
+/// Put–call parity C − P = S·e^(−qT) − K·e^(−rT), in units of
+/// ε·((1+κ_C)·C + (1+κ_P)·P + (2+|qT|)·S·e^(−qT) + (2+|rT|)·K·e^(−rT)).
+pub const PARITY: Tolerance = Tolerance {
+    quantity: "parity",
+    limit: 8.0,
+    reason: "each price is within 8·ε·(1+κ)·V of its exact value (the price contract) and \
+             each discounted term within (2+|rate·T|)·ε of its own (one rounding of the \
+             product r·T, amplified by |r·T| through exp, one of exp, one of the product), \
+             so the sum of those bounds, times the price limit, covers every term",
+};
+
+/// No-arbitrage bounds, max(0, forward intrinsic) ≤ V ≤ S·e^(−qT) (call) or
+/// K·e^(−rT) (put): the violation in units of ε·((1+κ)·V + (2+|rT|+|qT|)·bound).
+pub const BOUNDS: Tolerance = Tolerance {
+    quantity: "bounds",
+    limit: 8.0,
+    reason: "the price may sit as close to a bound as its own error, 8·ε·(1+κ)·V, and the \
+             bound itself is evaluated in f64 to (2+|rT|+|qT|)·ε of its value",
+};
+
+/// Monotonicity in strike (call falling, put rising) between K and K·(1 + σ√T/10):
+/// the violation in units of ε·((1+κ₁)·V₁ + (1+κ₂)·V₂).
+pub const STRIKE_MONOTONE: Tolerance = Tolerance {
+    quantity: "strike_monotone",
+    limit: 8.0,
+    reason: "two prices each within 8·ε·(1+κ)·V of the truth can only appear out of order \
+             by the sum of their errors",
+};
+
+/// Convexity in strike over K − h, K, K + h with h = K·σ√T/10: the slope
+/// violation in units of ε·Σ(1+κᵢ)·Vᵢ·(1/h₋ + 1/h₊).
+pub const STRIKE_CONVEX: Tolerance = Tolerance {
+    quantity: "strike_convex",
+    limit: 8.0,
+    reason: "each slope is a difference of two prices over the actual strike spacing, so \
+             the prices' own errors (8·ε·(1+κ)·V each) bound how far the slopes can appear \
+             out of order",
+};
+
+/// Homogeneity V(λS, λK) = λ·V(S, K), λ in [1/4, 4], in units of ε·(1+κ)·λ·V.
+pub const HOMOGENEITY: Tolerance = Tolerance {
+    quantity: "homogeneity",
+    limit: 17.0,
+    reason: "two prices within 8·ε·(1+κ)·V each (16), plus the rounding of λS and λK \
+             (half an ulp each, worth at most ½·ε·κ·V) and of the product λ·V (½ ulp)",
+};
+
+/// A Greek against a central difference of the price: |g − fd(h)| in units of
+/// |fd(2h) − fd(h)|/3 + 8·ε·(1+κ)·V·c/hⁿ + 16·ε·(1+κ)·(|g| + s_g), where the
+/// first term estimates the truncation error of fd(h), the second the
+/// rounding of the prices it divides (c = 1 for first and 4 for second
+/// differences) and the third the Greek's own contract.
+pub const FINITE_DIFFERENCE: Tolerance = Tolerance {
+    quantity: "finite_difference",
+    limit: 2.0,
+    reason: "a central difference errs by C·h² + O(h⁴), so fd(2h) − fd(h) = 3·C·h² + O(h⁴) \
+             measures its truncation; with steps of ε^(1/3) (first) and ε^(1/4) (second \
+             derivative) of the input's natural scale the O(h⁴) rest is below 1e-10 of it. \
+             The price contract bounds the rounding; the Greek contract the Greek itself. \
+             The limit 2 allows for the estimate and the bound both being loose by a factor \
+             below two",
+};
+
 /// A case known to miss its tolerance, with the reason. It is measured like
 /// any other, must still fail (a case that starts passing must be taken off
 /// this list), and is reported apart from the worst errors.

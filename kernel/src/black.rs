@@ -228,6 +228,7 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
 /// assert!((v - 4.759422392871).abs() < 1e-11);
 /// # Ok::<(), calor::Error>(())
 /// ```
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn price(contract: &Contract, market: &Market, vol: f64) -> Result<f64, Error> {
     let value = Setup::new(contract, market, vol)?.value();
     if value.is_finite() {

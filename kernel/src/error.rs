@@ -21,6 +21,12 @@ pub enum Field {
     Vol,
     /// The premium argument of the implied-volatility solver.
     Premium,
+    /// The kind of a batch element.
+    Kind,
+    /// An output slice of a batch function.
+    Output,
+    /// The status slice of a batch function.
+    Status,
 }
 
 impl Field {
@@ -39,6 +45,9 @@ impl Field {
             Field::DividendYield => "dividend_yield",
             Field::Vol => "vol",
             Field::Premium => "premium",
+            Field::Kind => "kind",
+            Field::Output => "output",
+            Field::Status => "status",
         }
     }
 }
@@ -167,6 +176,12 @@ pub enum Error {
     /// The premium is at or above the no-arbitrage upper bound (S·e^(−qT) for a
     /// call, K·e^(−rT) for a put): no volatility reproduces it.
     PremiumAboveMaximum,
+    /// A slice of a batch call has a different length from the batch's
+    /// `kinds`; nothing was computed.
+    LengthMismatch {
+        /// The slice whose length differs.
+        field: Field,
+    },
     /// The result exceeds the range of `f64` (for example a put struck near
     /// `f64::MAX` under a negative rate).
     Overflow,
@@ -194,6 +209,9 @@ impl fmt::Display for Error {
             }
             Error::PremiumAboveMaximum => {
                 f.write_str("premium: at or above the no-arbitrage maximum of the option")
+            }
+            Error::LengthMismatch { field } => {
+                write!(f, "{field}: slice length differs from the batch's")
             }
             Error::Overflow => f.write_str("result: exceeds the range of f64"),
             Error::InvalidGrid { parameter } => {

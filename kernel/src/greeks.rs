@@ -68,6 +68,7 @@ use crate::normal::{norm_cdf, INV_SQRT_2PI};
 /// assert!((g.gamma - 0.065544039347).abs() < 1e-11);
 /// # Ok::<(), calor::Error>(())
 /// ```
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn greeks(contract: &Contract, market: &Market, vol: f64) -> Result<Greeks, Error> {
     let p = Setup::new(contract, market, vol)?;
     let g = if p.s > 0.0 {

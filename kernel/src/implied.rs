@@ -90,6 +90,7 @@ pub struct ImpliedVol {
 /// assert!((price(&c, &m, vol)? - 1.875).abs() < 1e-14);
 /// # Ok::<(), calor::Error>(())
 /// ```
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn implied_vol(contract: &Contract, market: &Market, premium: f64) -> Result<f64, Error> {
     solve_implied_vol(contract, market, premium).map(|r| r.vol)
 }
@@ -108,6 +109,7 @@ pub fn implied_vol(contract: &Contract, market: &Market, premium: f64) -> Result
 /// assert!(r.iterations <= MAX_ITERATIONS);
 /// # Ok::<(), calor::Error>(())
 /// ```
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn solve_implied_vol(
     contract: &Contract,
     market: &Market,

@@ -19,7 +19,10 @@
 //! # Ok::<(), calor::Error>(())
 //! ```
 #![no_std]
-#![forbid(unsafe_code)]
+#![cfg_attr(not(feature = "no-panic"), forbid(unsafe_code))]
+// Under the `no-panic` feature the one unsafe block is the link-time trigger
+// that `no_panic` expands into each entry point, allowed on those alone.
+#![cfg_attr(feature = "no-panic", deny(unsafe_code))]
 #![deny(missing_docs)]
 #![deny(
     clippy::unwrap_used,
@@ -28,15 +31,22 @@
     clippy::indexing_slicing
 )]
 
+mod batch;
 mod black;
 mod contract;
 mod error;
+#[cfg(feature = "fixed")]
+pub mod fixed;
 mod greeks;
 mod grid;
 mod heat;
 mod implied;
 mod normal;
+mod vector;
 
+pub use batch::{
+    greeks_batch, implied_vol_batch, price_batch, price_delta_batch, ElementStatus, OptionBatch,
+};
 pub use black::price;
 pub use contract::{Contract, Greeks, Kind, Market};
 pub use error::{Error, Field, GridParameter};

@@ -4,6 +4,7 @@
 //! that does not parse is a [`CaseError`] naming the file, the line and the
 //! column, so that `calor certify` can say exactly what is broken.
 
+pub mod american;
 pub mod black;
 pub mod textbook;
 

@@ -49,21 +49,31 @@ impl GreeksOutcome {
     }
 }
 
-/// Measures every quantity of every case.
+/// One quantity of one case, as measured by [`visit_greeks`].
+#[derive(Debug, Clone, Copy)]
+pub struct GreekError {
+    /// The quantity, as named in the table.
+    pub quantity: &'static str,
+    /// Error in units of ε·(1+κ)·(|reference| + natural scale); infinite when refused.
+    pub units: f64,
+    /// The reference value.
+    pub expected: f64,
+    /// The kernel's value (NaN when refused).
+    pub actual: f64,
+    /// The kernel's refusal, if it refused.
+    pub refused: Option<calor::Error>,
+}
+
+/// Measures every quantity of every case and hands each measurement to `visit`.
 ///
 /// A case the kernel refuses counts as an infinite error on every quantity.
-pub fn measure_greeks(cases: &[GreeksCase]) -> GreeksOutcome {
-    let mut expected = Vec::new();
-    let mut worst: Vec<Worst> = QUANTITIES
-        .iter()
-        .map(|q| Worst::new(q, tolerance::for_quantity(q).limit))
-        .collect();
+pub fn visit_greeks(cases: &[GreeksCase], mut visit: impl FnMut(&GreeksCase, GreekError)) {
     for case in cases {
         let inputs = case.inputs();
         let got = calor::greeks(&inputs.contract(), &inputs.market(), inputs.vol);
         let reference = case.reference().named();
-        for (w, (name, want)) in worst.iter_mut().zip(reference) {
-            let (units, actual) = match &got {
+        for (name, want) in reference {
+            let measured = match &got {
                 Ok(g) => {
                     let actual = g
                         .named()
@@ -78,24 +88,53 @@ pub fn measure_greeks(cases: &[GreeksCase]) -> GreeksOutcome {
                         inputs.expiry,
                     )
                     .unwrap_or(f64::NAN);
-                    (tolerance::units(actual, want, case.kappa, scale), actual)
+                    GreekError {
+                        quantity: name,
+                        units: tolerance::units(actual, want, case.kappa, scale),
+                        expected: want,
+                        actual,
+                        refused: None,
+                    }
                 }
-                Err(_) => (f64::INFINITY, f64::NAN),
+                Err(e) => GreekError {
+                    quantity: name,
+                    units: f64::INFINITY,
+                    expected: want,
+                    actual: f64::NAN,
+                    refused: Some(*e),
+                },
             };
-            if let Some(x) = tolerance::expected_failure(&case.id, name) {
-                expected.push((x, units));
-                continue;
-            }
-            w.record(units, &case.id, || {
-                format!(
-                    "{:?} expected {} got {}{}",
-                    inputs,
-                    show(want),
-                    show(actual),
-                    got.err().map(|e| format!(" error {e}")).unwrap_or_default()
-                )
-            });
+            visit(case, measured);
         }
     }
+}
+
+/// Measures every quantity of every case.
+///
+/// A case the kernel refuses counts as an infinite error on every quantity.
+pub fn measure_greeks(cases: &[GreeksCase]) -> GreeksOutcome {
+    let mut expected = Vec::new();
+    let mut worst: Vec<Worst> = QUANTITIES
+        .iter()
+        .map(|q| Worst::new(q, tolerance::for_quantity(q).limit))
+        .collect();
+    visit_greeks(cases, |case, m| {
+        if let Some(x) = tolerance::expected_failure(&case.id, m.quantity) {
+            expected.push((x, m.units));
+            return;
+        }
+        let Some(w) = worst.iter_mut().find(|w| w.quantity == m.quantity) else {
+            return;
+        };
+        w.record(m.units, &case.id, || {
+            format!(
+                "{:?} expected {} got {}{}",
+                case.inputs(),
+                show(m.expected),
+                show(m.actual),
+                m.refused.map(|e| format!(" error {e}")).unwrap_or_default()
+            )
+        });
+    });
     GreeksOutcome { worst, expected }
 }

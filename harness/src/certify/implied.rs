@@ -19,52 +19,93 @@ pub struct ImpliedOutcome {
     pub iteration_counts: Vec<usize>,
 }
 
+/// One round trip, as measured by [`visit_implied`].
+#[derive(Debug, Clone, Copy)]
+pub struct RoundTrip {
+    /// |σ̂ − σ| in units of ε·((1+κ)·V/vega + σ/4); infinite when refused.
+    pub forward: f64,
+    /// |price(σ̂) − premium| in units of ε·(1+κ)·V; infinite when refused.
+    pub backward: f64,
+    /// The recovered vol σ̂ (NaN when refused).
+    pub vol: f64,
+    /// Iterations used, when solved.
+    pub iterations: Option<u32>,
+    /// False when one more Newton correction would still move σ̂ by more
+    /// than the forward tolerance, or the iteration bound was exceeded.
+    pub converged: bool,
+    /// The kernel's refusal, if it refused.
+    pub refused: Option<calor::Error>,
+}
+
+/// Solves every case and hands each round trip to `visit`.
+pub fn visit_implied(cases: &[ImpliedCase], mut visit: impl FnMut(&ImpliedCase, RoundTrip)) {
+    let eps = f64::EPSILON;
+    for case in cases {
+        let inputs = case.inputs();
+        let (contract, market) = (inputs.contract(), inputs.market());
+        let trip = match calor::solve_implied_vol(&contract, &market, case.premium) {
+            Ok(r) => {
+                let scale = (1.0 + case.kappa) * case.price / case.vega + case.vol / 4.0;
+                let correction = calor::greeks(&contract, &market, r.vol)
+                    .map_or(f64::INFINITY, |g| (g.price - case.premium) / g.vega);
+                let converged = r.iterations <= calor::MAX_ITERATIONS
+                    && correction.abs() <= tolerance::IMPLIED_VOL.limit * eps * scale;
+                let repriced = calor::price(&contract, &market, r.vol).unwrap_or(f64::NAN);
+                RoundTrip {
+                    forward: (r.vol - case.vol).abs() / (eps * scale),
+                    backward: tolerance::units(repriced, case.premium, case.kappa, 0.0),
+                    vol: r.vol,
+                    iterations: Some(r.iterations),
+                    converged,
+                    refused: None,
+                }
+            }
+            Err(e) => RoundTrip {
+                forward: f64::INFINITY,
+                backward: f64::INFINITY,
+                vol: f64::NAN,
+                iterations: None,
+                converged: false,
+                refused: Some(e),
+            },
+        };
+        visit(case, trip);
+    }
+}
+
+/// The failure detail of a round trip: inputs, premium, expected and recovered vol.
+pub fn round_trip_detail(case: &ImpliedCase, trip: &RoundTrip) -> String {
+    format!(
+        "{:?} premium {} expected vol {} got {}{}",
+        case.inputs(),
+        show(case.premium),
+        show(case.vol),
+        show(trip.vol),
+        trip.refused
+            .map(|e| format!(" error {e}"))
+            .unwrap_or_default()
+    )
+}
+
 /// Solves every case and measures it.
 pub fn measure_implied(cases: &[ImpliedCase]) -> ImpliedOutcome {
     let mut forward = Worst::new("implied_vol", tolerance::IMPLIED_VOL.limit);
     let mut backward = Worst::new("repricing", tolerance::REPRICING.limit);
     let mut unconverged = Vec::new();
     let mut iteration_counts = vec![0; calor::MAX_ITERATIONS as usize + 1];
-    for case in cases {
-        let inputs = case.inputs();
-        let (contract, market) = (inputs.contract(), inputs.market());
-        let solved = calor::solve_implied_vol(&contract, &market, case.premium);
-        let eps = f64::EPSILON;
-        let (fwd, bwd, vol) = match solved {
-            Ok(r) => {
-                if let Some(n) = iteration_counts.get_mut(r.iterations as usize) {
-                    *n += 1;
-                }
-                let scale = (1.0 + case.kappa) * case.price / case.vega + case.vol / 4.0;
-                let correction = calor::greeks(&contract, &market, r.vol)
-                    .map_or(f64::INFINITY, |g| (g.price - case.premium) / g.vega);
-                if r.iterations > calor::MAX_ITERATIONS
-                    || !(correction.abs() <= tolerance::IMPLIED_VOL.limit * eps * scale)
-                {
-                    unconverged.push(case.id.clone());
-                }
-                let fwd = (r.vol - case.vol).abs() / (eps * scale);
-                let repriced = calor::price(&contract, &market, r.vol).unwrap_or(f64::NAN);
-                let bwd = tolerance::units(repriced, case.premium, case.kappa, 0.0);
-                (fwd, bwd, r.vol)
-            }
-            Err(_) => (f64::INFINITY, f64::INFINITY, f64::NAN),
-        };
-        let detail = || {
-            format!(
-                "{inputs:?} premium {} expected vol {} got {}{}",
-                show(case.premium),
-                show(case.vol),
-                show(vol),
-                solved
-                    .err()
-                    .map(|e| format!(" error {e}"))
-                    .unwrap_or_default()
-            )
-        };
-        forward.record(fwd, &case.id, detail);
-        backward.record(bwd, &case.id, detail);
-    }
+    visit_implied(cases, |case, trip| {
+        if let Some(n) = trip
+            .iterations
+            .and_then(|i| iteration_counts.get_mut(i as usize))
+        {
+            *n += 1;
+        }
+        if trip.iterations.is_some() && !trip.converged {
+            unconverged.push(case.id.clone());
+        }
+        forward.record(trip.forward, &case.id, || round_trip_detail(case, &trip));
+        backward.record(trip.backward, &case.id, || round_trip_detail(case, &trip));
+    });
     ImpliedOutcome {
         forward,
         backward,

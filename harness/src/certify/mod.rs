@@ -1,7 +1,17 @@
 //! Measuring the kernel against the reference tables, in units of tolerance.
 
+pub mod american;
 pub mod black;
+pub mod command;
+pub mod error_map;
+pub mod heat;
+pub mod identity;
 pub mod implied;
+pub mod ladder;
+pub mod region;
+pub mod report;
+pub mod sweep;
+pub mod tally;
 pub mod textbook;
 
 use std::fmt;

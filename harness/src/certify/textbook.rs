@@ -68,8 +68,7 @@ pub fn measure_textbook(cases: &[TextbookCase]) -> Vec<TextbookResult> {
                 ours,
                 printed_units,
                 recomputed_units,
-                // A printed value may sit exactly on the rounding boundary.
-                passes: printed_units <= 1.0 + 1e-9
+                passes: printed_units <= tolerance::PRINTED.limit
                     && recomputed_units <= tolerance::TEXTBOOK.limit,
                 source: format!("{} ({})", case.source, case.citation),
             }

@@ -1,0 +1,305 @@
+//! The streaming loop: one thread reads chunks of records, the rayon pool
+//! values and encodes each chunk, and the calling thread writes the chunks in
+//! input order.
+//!
+//! At most three chunks exist at a time (one being read, one waiting, one
+//! being valued), and their records are reused, so memory stays flat however
+//! long the input is.
+
+use std::collections::VecDeque;
+use std::fmt;
+use std::io::{self, Read, Write};
+use std::sync::{mpsc, Arc, Mutex};
+
+use csv::ByteRecord;
+use rayon::prelude::*;
+
+use super::decode::{Header, HeaderError};
+use super::encode::{self, Format};
+use super::value::value_record;
+
+/// Records per chunk handed to the pool: large enough to keep every core busy,
+/// small enough that three chunks stay a few MiB.
+pub const CHUNK_ROWS: usize = 16_384;
+
+/// Records per piece of a chunk that one worker values and encodes in one go.
+const PIECE_ROWS: usize = 1_024;
+
+/// Counts of a finished run.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct Summary {
+    /// Data rows read (the header not counted).
+    pub rows: u64,
+    /// Rows with status `ok`.
+    pub ok: u64,
+    /// Rows with an error status.
+    pub bad: u64,
+}
+
+/// Why a run stopped.
+#[derive(Debug)]
+pub enum BatchError {
+    /// The header cannot start a batch (exit code 2).
+    Header(HeaderError),
+    /// Reading the input failed.
+    Read(csv::Error),
+    /// Writing the output failed.
+    Write(io::Error),
+}
+
+impl fmt::Display for BatchError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            BatchError::Header(e) => e.fmt(f),
+            BatchError::Read(e) => write!(f, "input: {e}"),
+            BatchError::Write(e) => write!(f, "output: {e}"),
+        }
+    }
+}
+
+impl std::error::Error for BatchError {}
+
+/// An input whose header has been read and accepted; nothing written yet.
+pub struct Started<R> {
+    reader: csv::Reader<LineCounting<R>>,
+    header: Header,
+    lines: Arc<Mutex<LineIndex>>,
+}
+
+impl<R: Read + Send> Started<R> {
+    /// Reads and checks the header of `input`.
+    ///
+    /// The CSV dialect: comma-separated, `"` quotes, LF or CRLF line ends,
+    /// rows of any length (a wrong length is the row's error, not the run's).
+    ///
+    /// # Errors
+    /// [`BatchError::Header`] for a missing or unusable header,
+    /// [`BatchError::Read`] if reading fails.
+    pub fn new(input: R) -> Result<Started<R>, BatchError> {
+        let lines = Arc::new(Mutex::new(LineIndex::default()));
+        let mut reader = csv::ReaderBuilder::new()
+            .has_headers(false)
+            .flexible(true)
+            .buffer_capacity(1 << 20)
+            .from_reader(LineCounting {
+                inner: input,
+                lines: Arc::clone(&lines),
+                offset: 0,
+            });
+        let mut first = ByteRecord::new();
+        if !reader
+            .read_byte_record(&mut first)
+            .map_err(BatchError::Read)?
+        {
+            return Err(BatchError::Header(HeaderError::Empty));
+        }
+        let header = Header::new(&first).map_err(BatchError::Header)?;
+        Ok(Started {
+            reader,
+            header,
+            lines,
+        })
+    }
+
+    /// The accepted header.
+    pub fn header(&self) -> &Header {
+        &self.header
+    }
+
+    /// Values every row and writes the results to `output` in input order.
+    ///
+    /// # Errors
+    /// [`BatchError::Read`] or [`BatchError::Write`] on an I/O failure; rows
+    /// never stop the run.
+    pub fn finish<W: Write>(self, output: &mut W, format: Format) -> Result<Summary, BatchError> {
+        let Started {
+            mut reader,
+            header,
+            lines,
+        } = self;
+        let mut head = Vec::new();
+        encode::header_line(&header, format, &mut head);
+        output.write_all(&head).map_err(BatchError::Write)?;
+        let mut summary = Summary::default();
+        std::thread::scope(|scope| {
+            let (full_tx, full_rx) = mpsc::sync_channel::<Result<Chunk, csv::Error>>(1);
+            let (empty_tx, empty_rx) = mpsc::channel::<Chunk>();
+            scope.spawn(move || loop {
+                let mut chunk = empty_rx.try_recv().unwrap_or_default();
+                let filled = chunk.fill(&mut reader, &lines);
+                let done = !matches!(filled, Ok(true));
+                if full_tx.send(filled.map(|_| chunk)).is_err() || done {
+                    break;
+                }
+            });
+            for chunk in full_rx {
+                let chunk = chunk.map_err(BatchError::Read)?;
+                let pieces: Vec<Piece> = chunk
+                    .records()
+                    .par_chunks(PIECE_ROWS)
+                    .map(|records| Piece::encode(&header, records, format))
+                    .collect();
+                for piece in &pieces {
+                    output.write_all(&piece.bytes).map_err(BatchError::Write)?;
+                    summary.ok += piece.ok;
+                    summary.bad += piece.bad;
+                }
+                summary.rows += chunk.len as u64;
+                // The reader may have finished; then the chunk is just dropped.
+                let _ = empty_tx.send(chunk);
+            }
+            Ok::<(), BatchError>(())
+        })?;
+        output.flush().map_err(BatchError::Write)?;
+        Ok(summary)
+    }
+}
+
+/// Up to [`CHUNK_ROWS`] records; the first `len` are this chunk's, the rest are
+/// kept from an earlier use so their buffers are reused.
+#[derive(Default)]
+struct Chunk {
+    records: Vec<ByteRecord>,
+    len: usize,
+}
+
+impl Chunk {
+    /// Reads up to [`CHUNK_ROWS`] records; `Ok(false)` once the input is exhausted.
+    ///
+    /// Each record's position gets the line it starts on: the CSV reader's own
+    /// count skips blank lines.
+    fn fill<R: Read>(
+        &mut self,
+        reader: &mut csv::Reader<R>,
+        lines: &Mutex<LineIndex>,
+    ) -> Result<bool, csv::Error> {
+        self.len = 0;
+        while self.len < CHUNK_ROWS {
+            if self.records.len() == self.len {
+                self.records.push(ByteRecord::new());
+            }
+            let Some(record) = self.records.get_mut(self.len) else {
+                break;
+            };
+            if !reader.read_byte_record(record)? {
+                return Ok(false);
+            }
+            if let Some(mut position) = record.position().cloned() {
+                // Locked per record: the reader takes the same lock inside `read`.
+                let line = lines
+                    .lock()
+                    .unwrap_or_else(std::sync::PoisonError::into_inner)
+                    .line_of(position.byte());
+                position.set_line(line);
+                record.set_position(Some(position));
+            }
+            self.len += 1;
+        }
+        Ok(true)
+    }
+
+    fn records(&self) -> &[ByteRecord] {
+        self.records.get(..self.len).unwrap_or_default()
+    }
+}
+
+/// The input, with the offsets of its line ends noted for [`LineIndex`].
+pub struct LineCounting<R> {
+    inner: R,
+    lines: Arc<Mutex<LineIndex>>,
+    offset: u64,
+}
+
+impl<R: Read> Read for LineCounting<R> {
+    fn read(&mut self, buf: &mut [u8]) -> io::Result<usize> {
+        let n = self.inner.read(buf)?;
+        let mut lines = self
+            .lines
+            .lock()
+            .unwrap_or_else(std::sync::PoisonError::into_inner);
+        let offset = self.offset;
+        let read = buf.get(..n).unwrap_or_default();
+        lines.pending.extend(
+            read.iter()
+                .enumerate()
+                .filter(|(_, b)| matches!(b, b'\n' | b'\r'))
+                .map(|(i, b)| (offset + i as u64, *b == b'\n')),
+        );
+        self.offset += n as u64;
+        Ok(n)
+    }
+}
+
+/// Line numbers of byte offsets, asked in increasing order: the line ends
+/// (CR or LF) read but not yet passed, and the count of line feeds passed.
+#[derive(Debug, Default)]
+pub struct LineIndex {
+    pending: VecDeque<(u64, bool)>,
+    passed: u64,
+}
+
+impl LineIndex {
+    /// The 1-based line of the first byte at or after `offset` that is not a
+    /// line end: the CSV reader places a record's start before the blank lines
+    /// it skipped. Offsets must not decrease.
+    fn line_of(&mut self, offset: u64) -> u64 {
+        let mut offset = offset;
+        while let Some(&(at, feed)) = self.pending.front() {
+            if at > offset {
+                break;
+            }
+            if at == offset {
+                offset += 1;
+            }
+            self.pending.pop_front();
+            self.passed += u64::from(feed);
+        }
+        self.passed + 1
+    }
+}
+
+/// The encoded output of consecutive records, with its counts.
+struct Piece {
+    bytes: Vec<u8>,
+    ok: u64,
+    bad: u64,
+}
+
+impl Piece {
+    fn encode(header: &Header, records: &[ByteRecord], format: Format) -> Piece {
+        // About 20 bytes per number and the input echoed: one allocation per piece.
+        let mut bytes = Vec::with_capacity(records.len() * (400 + 2 * header.len()));
+        let mut scratch = String::new();
+        let (mut ok, mut bad) = (0, 0);
+        for record in records {
+            let outcome = value_record(header, record);
+            if outcome.failure.is_none() {
+                ok += 1;
+            } else {
+                bad += 1;
+            }
+            encode::row(header, record, &outcome, format, &mut scratch, &mut bytes);
+        }
+        Piece { bytes, ok, bad }
+    }
+}
+
+/// Runs a whole batch from bytes to bytes, in memory: for tests and fuzzing.
+///
+/// # Errors
+/// As [`Started::new`] and [`Started::finish`].
+///
+/// # Examples
+/// ```
+/// use calor_harness::batch::{run_bytes, Format};
+/// let book = b"id,kind,spot,strike,expiry,rate,vol\nngx-1,call,42,40,0.5,0.1,0.2\n";
+/// let (out, summary) = run_bytes(book, Format::Csv)?;
+/// assert_eq!(summary.ok, 1);
+/// assert!(String::from_utf8(out)?.lines().nth(1).is_some_and(|l| l.starts_with("ngx-1,call,42,40,0.5,0.1,0.2,4.759422392871")));
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
+pub fn run_bytes(input: &[u8], format: Format) -> Result<(Vec<u8>, Summary), BatchError> {
+    let mut out = Vec::new();
+    let summary = Started::new(input)?.finish(&mut out, format)?;
+    Ok((out, summary))
+}
