@@ -11,19 +11,7 @@ use calor_harness::fuzz_checks::TARGETS;
 
 /// Findings not fixed yet: (target, file under `fuzz/`, reason). Each must
 /// still fail its check; once it passes, the test says so and the entry goes.
-const EXPECTED_FAILURES: &[(&str, &str, &str)] = &[
-    (
-        "american_price",
-        "regressions/american_price/negative-price-deep-otm-put",
-        "kernel: grid_value floors an American price at ω(S − K), not max(ω(S − K), 0), \
-         so a far out-of-the-money put can come back as −6.7e-34 (reported to the lead)",
-    ),
-    (
-        "american_price",
-        "corpus/american_price/seed-03",
-        "the same finding: the seed that found it",
-    ),
-];
+const EXPECTED_FAILURES: &[(&str, &str, &str)] = &[];
 
 /// Runs `target`'s check on every file of its corpus and regressions; returns how many.
 fn replay(target: &str) -> usize {

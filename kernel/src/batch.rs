@@ -324,6 +324,7 @@ fn finish(
 /// element lies outside the fast region. Straight-line code: every condition
 /// is a select.
 #[allow(clippy::too_many_arguments)]
+#[inline(always)]
 fn lane(
     kind: Kind,
     spot: f64,

@@ -121,7 +121,9 @@ impl Setup {
         if self.in_the_money() {
             // large − small is exact when large ≤ 2·small (Sterbenz) and free of
             // cancellation otherwise: the forward intrinsic value.
-            otm + (large - small)
+            // The max only matters when a leg has underflowed (e^(−qT) below the
+            // normal range) and no longer agrees with the sign of x.
+            otm + (large - small).max(0.0)
         } else {
             otm
         }
@@ -190,7 +192,11 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
     if erfcx_wing(h, t) {
         let gap = scaled_erfc(-(h + t) * FRAC_1_SQRT_2) - scaled_erfc((t - h) * FRAC_1_SQRT_2);
         let decay = 0.5 * (h * h + t * t);
-        scaled(0.5 * libm::sqrt(small) * libm::sqrt(large) * gap, decay)
+        // erfcx is decreasing, so gap ≥ 0; rounding may still leave it a hair below.
+        scaled(
+            0.5 * libm::sqrt(small) * libm::sqrt(large) * gap.max(0.0),
+            decay,
+        )
     } else {
         (small * norm_cdf(h + t) - large * norm_cdf(h - t)).max(0.0)
     }

@@ -241,6 +241,7 @@ pub fn norm_cdf(x: Fix) -> Fix {
 /// assert!(delta < Fix::ZERO);
 /// # Ok::<(), calor::Error>(())
 /// ```
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn price_delta(inputs: &FixedInputs) -> Result<(Fix, Fix), Error> {
     let FixedInputs {
         kind,

@@ -194,12 +194,14 @@ pub fn grid_value(
         first
     };
     let mut value = value;
-    if schedule.american {
-        // Extrapolation may undercut the payoff by a rounding-sized amount near
-        // the exercise boundary; an American value never does.
-        let intrinsic = t.omega * (market.spot - contract.strike);
-        value.price = value.price.max(intrinsic);
-    }
+    // Extrapolation and rounding may undercut the payoff (or zero, far out of
+    // the money) by a rounding-sized amount; an option value never does.
+    let floor = if schedule.american {
+        (t.omega * (market.spot - contract.strike)).max(0.0)
+    } else {
+        0.0
+    };
+    value.price = value.price.max(floor);
     let finite = [value.price, value.delta, value.gamma]
         .iter()
         .all(|v| v.is_finite());

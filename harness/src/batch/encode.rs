@@ -3,12 +3,14 @@
 //! Rows are appended to a caller's `Vec<u8>`, so that each worker encodes its
 //! share of a chunk without locks and the chunk is written in input order.
 
+use std::borrow::Cow;
 use std::fmt::Write as _;
 
 use csv::ByteRecord;
 
+use super::decode::RowError;
 use super::decode::{Header, Quote, GREEK_COLUMNS};
-use super::value::Outcome;
+use super::value::{Failure, Outcome};
 
 /// The output format of `calor batch`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
@@ -79,16 +81,26 @@ pub fn row(
     };
     let numbers = outcome.values.iter().copied().chain(implied);
     let mut numbers_buf = ryu::Buffer::new();
-    // Borrowed unless the cell is not UTF-8 (a bad row), then with U+FFFD.
-    let cells =
-        (0..header.len()).map(|i| String::from_utf8_lossy(record.get(i).unwrap_or_default()));
+    // Only a row refused as not UTF-8 needs U+FFFD; the others were checked.
+    let utf8 = !matches!(
+        outcome.failure,
+        Some(Failure::Decode(RowError::NotUtf8 { .. }))
+    );
+    let cells = (0..header.len()).map(|i| {
+        let cell = record.get(i).unwrap_or_default();
+        if utf8 {
+            Cow::Borrowed(cell)
+        } else {
+            Cow::Owned(String::from_utf8_lossy(cell).into_owned().into_bytes())
+        }
+    });
     match format {
         Format::Csv => {
             for (i, cell) in cells.enumerate() {
                 if i > 0 {
                     out.push(b',');
                 }
-                csv_cell(out, cell.as_bytes());
+                csv_cell(out, &cell);
             }
             for value in numbers {
                 out.push(b',');
@@ -105,7 +117,7 @@ pub fn row(
             for (name, cell) in header.names.iter().zip(cells) {
                 json_string(out, name.as_bytes());
                 out.push(b':');
-                json_string(out, cell.as_bytes());
+                json_string(out, &cell);
                 out.push(b',');
             }
             for (name, value) in output_columns(header.quote).zip(numbers) {

@@ -121,6 +121,8 @@ impl<R: Read + Send> Started<R> {
         encode::header_line(&header, format, &mut head);
         output.write_all(&head).map_err(BatchError::Write)?;
         let mut summary = Summary::default();
+        // One output buffer per piece, reused from chunk to chunk.
+        let mut buffers: Vec<Vec<u8>> = Vec::new();
         std::thread::scope(|scope| {
             let (full_tx, full_rx) = mpsc::sync_channel::<Result<Chunk, csv::Error>>(1);
             let (empty_tx, empty_rx) = mpsc::channel::<Chunk>();
@@ -134,15 +136,17 @@ impl<R: Read + Send> Started<R> {
             });
             for chunk in full_rx {
                 let chunk = chunk.map_err(BatchError::Read)?;
-                let pieces: Vec<Piece> = chunk
-                    .records()
+                let records = chunk.records();
+                buffers.resize_with(records.len().div_ceil(PIECE_ROWS), Vec::new);
+                let counts: Vec<(u64, u64)> = records
                     .par_chunks(PIECE_ROWS)
-                    .map(|records| Piece::encode(&header, records, format))
+                    .zip(buffers.par_iter_mut())
+                    .map(|(records, bytes)| encode_piece(&header, records, format, bytes))
                     .collect();
-                for piece in &pieces {
-                    output.write_all(&piece.bytes).map_err(BatchError::Write)?;
-                    summary.ok += piece.ok;
-                    summary.bad += piece.bad;
+                for (bytes, (ok, bad)) in buffers.iter().zip(counts) {
+                    output.write_all(bytes).map_err(BatchError::Write)?;
+                    summary.ok += ok;
+                    summary.bad += bad;
                 }
                 summary.rows += chunk.len as u64;
                 // The reader may have finished; then the chunk is just dropped.
@@ -258,30 +262,27 @@ impl LineIndex {
     }
 }
 
-/// The encoded output of consecutive records, with its counts.
-struct Piece {
-    bytes: Vec<u8>,
-    ok: u64,
-    bad: u64,
-}
-
-impl Piece {
-    fn encode(header: &Header, records: &[ByteRecord], format: Format) -> Piece {
-        // About 20 bytes per number and the input echoed: one allocation per piece.
-        let mut bytes = Vec::with_capacity(records.len() * (400 + 2 * header.len()));
-        let mut scratch = String::new();
-        let (mut ok, mut bad) = (0, 0);
-        for record in records {
-            let outcome = value_record(header, record);
-            if outcome.failure.is_none() {
-                ok += 1;
-            } else {
-                bad += 1;
-            }
-            encode::row(header, record, &outcome, format, &mut scratch, &mut bytes);
+/// Values and encodes consecutive records into `bytes` (cleared first);
+/// returns the counts of ok and bad rows.
+fn encode_piece(
+    header: &Header,
+    records: &[ByteRecord],
+    format: Format,
+    bytes: &mut Vec<u8>,
+) -> (u64, u64) {
+    bytes.clear();
+    let mut scratch = String::new();
+    let (mut ok, mut bad) = (0, 0);
+    for record in records {
+        let outcome = value_record(header, record);
+        if outcome.failure.is_none() {
+            ok += 1;
+        } else {
+            bad += 1;
         }
-        Piece { bytes, ok, bad }
+        encode::row(header, record, &outcome, format, &mut scratch, bytes);
     }
+    (ok, bad)
 }
 
 /// Runs a whole batch from bytes to bytes, in memory: for tests and fuzzing.
