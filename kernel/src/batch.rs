@@ -111,6 +111,7 @@ fn same_len(len: usize, n: usize, field: Field) -> Result<(), Error> {
 /// [`Error::LengthMismatch`] naming the first slice whose length differs from
 /// `options.kinds` (`Field::Output` and `Field::Status` for the outputs);
 /// nothing is written then.
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn price_batch(
     options: &OptionBatch<'_>,
     vols: &[f64],
@@ -130,6 +131,7 @@ pub fn price_batch(
 ///
 /// # Errors
 /// As [`price_batch`], with `deltas` checked as `Field::Output` too.
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn price_delta_batch(
     options: &OptionBatch<'_>,
     vols: &[f64],
@@ -150,6 +152,7 @@ pub fn price_delta_batch(
 ///
 /// # Errors
 /// As [`price_batch`].
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn greeks_batch(
     options: &OptionBatch<'_>,
     vols: &[f64],
@@ -185,6 +188,7 @@ pub fn greeks_batch(
 ///
 /// # Errors
 /// As [`price_batch`], with `premiums` checked as `Field::Premium`.
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn implied_vol_batch(
     options: &OptionBatch<'_>,
     premiums: &[f64],
@@ -324,7 +328,7 @@ fn finish(
 /// element lies outside the fast region. Straight-line code: every condition
 /// is a select.
 #[allow(clippy::too_many_arguments)]
-#[inline(always)]
+#[inline]
 fn lane(
     kind: Kind,
     spot: f64,

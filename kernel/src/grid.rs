@@ -145,6 +145,7 @@ pub struct GridValue {
 /// assert!(v.boundary.is_some_and(|b| b < 50.0));
 /// # Ok::<(), calor::Error>(())
 /// ```
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn grid_value(
     contract: &Contract,
     market: &Market,
@@ -233,6 +234,7 @@ pub fn grid_value(
 /// assert!((american_price(&c, &m, 0.4)? - 4.2842).abs() < 1e-4);
 /// # Ok::<(), calor::Error>(())
 /// ```
+#[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn american_price(contract: &Contract, market: &Market, vol: f64) -> Result<f64, Error> {
     let mut workspace = [0.0; DEFAULT_WORKSPACE];
     grid_value(contract, market, vol, &GridSpec::AMERICAN, &mut workspace).map(|v| v.price)
@@ -272,7 +274,11 @@ fn layout(t: &Transform, spec: &GridSpec) -> Layout {
     let (lo, hi) = (y_spot.min(0.0) - reach, y_spot.max(0.0) + reach);
     let last = spec.nodes - 1;
     let spacing = (hi - lo) / last as f64;
-    let spot_node = (libm::round((y_spot - lo) / spacing) as usize).clamp(1, last - 1);
+    // max/min rather than clamp: check_spec guarantees last ≥ 4, but clamp's own
+    // min > max panic would otherwise stay reachable for the optimiser.
+    let spot_node = (libm::round((y_spot - lo) / spacing) as usize)
+        .max(1)
+        .min(last.saturating_sub(1));
     Layout {
         nodes: spec.nodes,
         start: y_spot - spot_node as f64 * spacing,

@@ -51,7 +51,7 @@ const ATANH_SERIES: [f64; 11] = [
 ];
 
 /// 2^k for an integer-valued k in [−1022, 1023], from the exponent bits.
-#[inline(always)]
+#[inline]
 fn pow2(k: f64) -> f64 {
     // The low bits of (k + 1023 + ROUNDER) hold k + 1023; shifting them into the
     // exponent field drops the rounder's own bit.
@@ -72,7 +72,7 @@ fn pow2(k: f64) -> f64 {
 /// # Accuracy
 /// About one ulp (the Horner evaluation and the reduction each contribute
 /// half an ulp); checked against `libm::exp` in the tests.
-#[inline(always)]
+#[inline]
 pub(crate) fn exp(x: f64) -> f64 {
     let x = x.clamp(-708.0, 709.0);
     let k = (x * LOG2_E + ROUNDER) - ROUNDER;
@@ -93,7 +93,7 @@ pub(crate) fn exp(x: f64) -> f64 {
 /// # Accuracy
 /// About one ulp of the result, and exact to rounding near a = b: the same
 /// property as the scalar path's log1p form.
-#[inline(always)]
+#[inline]
 pub(crate) fn ln_ratio(a: f64, b: f64) -> f64 {
     let bits = (a / b).to_bits();
     let m = f64::from_bits((bits & MANTISSA) | EXPONENT_ONE);
@@ -110,7 +110,7 @@ pub(crate) fn ln_ratio(a: f64, b: f64) -> f64 {
 
 /// x·y = p + e exactly (Dekker's product with Veltkamp's splitting), for
 /// |x|, |y|, |x·y| below 1e290.
-#[inline(always)]
+#[inline]
 pub(crate) fn two_product(x: f64, y: f64) -> (f64, f64) {
     const SPLITTER: f64 = 134_217_729.0;
     let p = x * y;
@@ -150,7 +150,7 @@ const ERFCX_CHEBYSHEV: [f64; 20] = [
 ];
 
 /// erfcx(x) for x in [0, 8.5] by Clenshaw's recurrence.
-#[inline(always)]
+#[inline]
 fn scaled_erfc(x: f64) -> f64 {
     let t = (x - 4.0) / (x + 4.0);
     let u = (2.0 * t - (ERFCX_T_HIGH - 1.0)) / (ERFCX_T_HIGH + 1.0);
@@ -173,7 +173,7 @@ fn scaled_erfc(x: f64) -> f64 {
 ///
 /// # Accuracy
 /// A few ulps relative for z < 0, a few ulps absolute for z ≥ 0.
-#[inline(always)]
+#[inline]
 pub(crate) fn norm_cdf(z: f64) -> f64 {
     let y = if z < 0.0 { -z } else { z } * FRAC_1_SQRT_2;
     let (hi, lo) = two_product(y, y);

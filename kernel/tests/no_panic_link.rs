@@ -9,8 +9,6 @@
 //!
 //! `cargo test -p calor --profile release-lto --features no-panic,fixed --test no_panic_link`
 //!
-//! `grid_value` and `american_price` are called but not yet wrapped: see the
-//! report on `Ord::clamp` in `grid::layout`.
 #![cfg(feature = "no-panic")]
 
 use core::hint::black_box;
@@ -55,4 +53,32 @@ fn link_fixed_point_cannot_panic() {
         vol: Fix::ONE / 5,
     });
     assert!(price_delta(&inputs).is_ok());
+    let batch = calor::OptionBatch {
+        kinds: black_box(&[Kind::Call, Kind::Put][..]),
+        spots: black_box(&[42.0, 42.0][..]),
+        strikes: black_box(&[40.0, 44.0][..]),
+        expiries: black_box(&[0.5, 0.5][..]),
+        rates: black_box(&[0.1, 0.1][..]),
+        dividend_yields: black_box(&[0.0, 0.0][..]),
+    };
+    let vols = black_box([0.2, 0.2]);
+    let (mut prices, mut deltas, mut status) = ([0.0; 2], [0.0; 2], [Ok(()); 2]);
+    assert_eq!(
+        calor::price_batch(&batch, &vols, &mut prices, &mut status),
+        Ok(2)
+    );
+    assert_eq!(
+        calor::price_delta_batch(&batch, &vols, &mut prices, &mut deltas, &mut status),
+        Ok(2)
+    );
+    let mut out = [calor::Greeks::default(); 2];
+    assert_eq!(
+        calor::greeks_batch(&batch, &vols, &mut out, &mut status),
+        Ok(2)
+    );
+    let mut implied = [0.0; 2];
+    assert_eq!(
+        calor::implied_vol_batch(&batch, &prices, &mut implied, &mut status),
+        Ok(2)
+    );
 }
