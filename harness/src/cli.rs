@@ -30,6 +30,8 @@ pub enum Command {
     /// Exit status 0 when every check passes, 1 when one fails, 2 when the
     /// reference cases cannot be read or the certificate cannot be written.
     Certify(crate::certify::command::CertifyArgs),
+    /// Options per second per core for the main entry points, at 1..N threads.
+    Bench(crate::throughput::BenchArgs),
 }
 
 /// The option and its market, shared by the subcommands. Rates and yields are
@@ -139,6 +141,7 @@ pub fn run(cli: &Cli) -> ExitCode {
         // Writes its own output and summary, and has its own exit codes.
         Command::Batch(args) => return crate::batch::main(args),
         Command::Certify(args) => return crate::certify::command::run(args),
+        Command::Bench(args) => crate::throughput::run(args),
     };
     // Written without `println!`, which panics when stdout is a closed pipe.
     match outcome {

@@ -414,9 +414,13 @@ pub fn check_american_price(data: &[u8]) {
         value >= intrinsic,
         "american price {value} below intrinsic {intrinsic} for {case:?}"
     );
+    // The most an American option can pay is the spot (call) or the strike
+    // (put); with a negative rate (or yield) waiting to expiry can be worth that
+    // amount grown at −r (or −q), which the holder may also choose.
+    let t = c.expiry;
     let cap = match c.kind {
-        Kind::Call => m.spot,
-        Kind::Put => c.strike,
+        Kind::Call => m.spot * (-m.dividend_yield * t).exp().max(1.0),
+        Kind::Put => c.strike * (-m.rate * t).exp().max(1.0),
     };
     let slack = AMERICAN_TOLERANCE_PER_STRIKE * c.strike;
     assert!(

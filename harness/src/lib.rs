@@ -12,4 +12,5 @@ pub mod fuzz_checks;
 pub mod grid;
 pub mod implied;
 pub mod price;
+pub mod throughput;
 pub mod tolerance;

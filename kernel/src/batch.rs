@@ -328,7 +328,7 @@ fn finish(
 /// element lies outside the fast region. Straight-line code: every condition
 /// is a select.
 #[allow(clippy::too_many_arguments)]
-#[inline]
+#[inline(always)]
 fn lane(
     kind: Kind,
     spot: f64,
@@ -353,7 +353,7 @@ fn lane(
         && vol < 1e3
         && bounded(rate)
         && bounded(q);
-    let sqrt_t = libm::sqrt(expiry);
+    let sqrt_t = vector::sqrt(expiry);
     let s = vol * sqrt_t;
     let (carry_q, err_q) = vector::two_product(-q, expiry);
     let (carry_r, err_r) = vector::two_product(rate, expiry);

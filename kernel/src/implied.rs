@@ -78,7 +78,9 @@ pub struct ImpliedVol {
 /// As [`crate::price`] for the contract and market, plus
 /// [`Error::NotPositive`] for expiry = 0, [`Error::NotFinite`] or
 /// [`Error::Negative`] for the premium, [`Error::PremiumBelowIntrinsic`] and
-/// [`Error::PremiumAboveMaximum`] outside the no-arbitrage bounds.
+/// [`Error::PremiumAboveMaximum`] outside the no-arbitrage bounds, and
+/// [`Error::Overflow`] when the inputs' discount factors or moneyness leave the
+/// range of `f64`.
 ///
 /// # Examples
 /// ```
@@ -142,6 +144,11 @@ pub fn solve_implied_vol(
     }
     let target = Target::new(-libm::fabs(p.x), otm, small, large);
     let (s, iterations, last_step) = target.solve();
+    // Inputs whose discount factors or moneyness leave the range of f64 (say
+    // q·T beyond 700) have no meaningful normalised problem: refuse, never NaN.
+    if !(s / p.sqrt_t).is_finite() {
+        return Err(Error::Overflow);
+    }
     Ok(ImpliedVol {
         vol: s / p.sqrt_t,
         iterations,
