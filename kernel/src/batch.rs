@@ -327,7 +327,8 @@ fn finish(
 /// Price and delta of one element by the lane formulas, or (NaN, NaN) when the
 /// element lies outside the fast region. Straight-line code: every condition
 /// is a select.
-#[allow(clippy::too_many_arguments)]
+// Inlined so that the loops of `fast_pass` see the whole body and vectorise.
+#[allow(clippy::too_many_arguments, clippy::inline_always)]
 #[inline(always)]
 fn lane(
     kind: Kind,

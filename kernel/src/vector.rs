@@ -7,6 +7,10 @@
 //! position in the batch. Callers keep the arguments inside the stated ranges
 //! and send everything else to the scalar path.
 
+// The loop vectoriser only widens a loop whose whole body is inlined; these
+// functions are larger than LLVM's default inlining threshold.
+#![allow(clippy::inline_always)]
+
 use core::f64::consts::{FRAC_1_SQRT_2, LOG2_E, SQRT_2};
 
 /// 1.5·2⁵²: adding and subtracting it rounds a double below 2⁵¹ to an integer.
