@@ -8,9 +8,8 @@ use std::fmt::Write as _;
 
 use csv::ByteRecord;
 
-use super::decode::RowError;
 use super::decode::{Header, Quote, GREEK_COLUMNS};
-use super::value::{Failure, Outcome};
+use super::value::Outcome;
 
 /// The output format of `calor batch`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
@@ -81,14 +80,11 @@ pub fn row(
     };
     let numbers = outcome.values.iter().copied().chain(implied);
     let mut numbers_buf = ryu::Buffer::new();
-    // Only a row refused as not UTF-8 needs U+FFFD; the others were checked.
-    let utf8 = !matches!(
-        outcome.failure,
-        Some(Failure::Decode(RowError::NotUtf8 { .. }))
-    );
+    // A bad row may not have been checked for UTF-8 (a wrong cell count is
+    // found first): any cell that is not valid UTF-8 is written with U+FFFD.
     let cells = (0..header.len()).map(|i| {
         let cell = record.get(i).unwrap_or_default();
-        if utf8 {
+        if std::str::from_utf8(cell).is_ok() {
             Cow::Borrowed(cell)
         } else {
             Cow::Owned(String::from_utf8_lossy(cell).into_owned().into_bytes())
