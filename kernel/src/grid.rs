@@ -27,7 +27,7 @@ mod march;
 mod readoff;
 mod transform;
 
-use crate::contract::{validate, Contract, Market};
+use crate::contract::{validate, Contract, Kind, Market};
 use crate::error::{Error, Field, GridParameter};
 
 use march::{march, Layout, Schedule};
@@ -202,7 +202,18 @@ pub fn grid_value(
     } else {
         0.0
     };
-    value.price = value.price.max(floor);
+    // And never above what the option can pay: the spot (call) or the strike
+    // (put), discounted for European exercise; for American exercise the holder
+    // may also wait, which is worth more than exercising now only when the rate
+    // (put) or the yield (call) is negative.
+    let t_exp = contract.expiry;
+    let (cap_now, carry) = match contract.kind {
+        Kind::Call => (market.spot, market.dividend_yield),
+        Kind::Put => (contract.strike, market.rate),
+    };
+    let grown = cap_now * libm::exp(-carry * t_exp);
+    let cap = if schedule.american { grown.max(cap_now) } else { grown };
+    value.price = value.price.max(floor).min(cap);
     let finite = [value.price, value.delta, value.gamma]
         .iter()
         .all(|v| v.is_finite());
