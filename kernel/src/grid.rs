@@ -212,7 +212,11 @@ pub fn grid_value(
         Kind::Put => (contract.strike, market.rate),
     };
     let grown = cap_now * libm::exp(-carry * t_exp);
-    let cap = if schedule.american { grown.max(cap_now) } else { grown };
+    let cap = if schedule.american {
+        grown.max(cap_now)
+    } else {
+        grown
+    };
     value.price = value.price.max(floor).min(cap);
     let finite = [value.price, value.delta, value.gamma]
         .iter()
