@@ -47,6 +47,8 @@ pub const MAX_ITERATIONS: u32 = 3;
 
 /// Fraction of b_c (or of b_max − b_c) below which the asymptotic guesses apply.
 const ASYMPTOTIC_FRACTION: f64 = 0.25;
+/// Newton steps on the cheap model of b that refine the lower-wing guess.
+const MODEL_STEPS: usize = 2;
 /// A correction this small (relative) leaves an error of order its fourth power.
 const CONVERGED_STEP: f64 = 1e-5;
 /// √π.
@@ -217,11 +219,22 @@ impl Target {
                 let asymptote = self.lower_asymptote(s_c);
                 let ln_beta = self.ln_beta();
                 let miss = |s: f64| libm::fabs(self.model_ln_b(s) - ln_beta);
-                let s = if tangent > 0.0 && miss(tangent) < miss(asymptote) {
+                let mut s = if tangent > 0.0 && miss(tangent) < miss(asymptote) {
                     tangent
                 } else {
                     asymptote
                 };
+                // Two Newton steps on the model in u = 1/s², in which ln b is
+                // nearly linear (−x²·u/2 plus slowly varying terms).
+                for _ in 0..MODEL_STEPS {
+                    let (ln_m, ratio) = self.model_ln_b_and_slope(s);
+                    let u = 1.0 / (s * s);
+                    // d ln b/du = (d ln b/ds)·(ds/du) = ratio·(−s³/2).
+                    let next = u + (ln_m - ln_beta) / (0.5 * ratio * s * s * s);
+                    if next.is_finite() && next > 0.0 {
+                        s = (1.0 / libm::sqrt(next)).min(s_c);
+                    }
+                }
                 (s, Objective::LogPrice)
             } else {
                 (s_c - (b_c - self.beta) / slope_c, Objective::Price)
@@ -248,12 +261,17 @@ impl Target {
 
     /// ln b with erfcx(z) replaced by 2/(√π·(z + √(z² + 4/π))), valid for s ≤ s_c.
     fn model_ln_b(&self, s: f64) -> f64 {
+        self.model_ln_b_and_slope(s).0
+    }
+
+    /// The model's ln b and b′/b (b′ exact, b from the model).
+    fn model_ln_b_and_slope(&self, s: f64) -> (f64, f64) {
         let h = self.x / s;
         let t = 0.5 * s;
         let bound =
             |z: f64| 2.0 / (SQRT_PI * (z + libm::sqrt(z * z + 4.0 / core::f64::consts::PI)));
-        let gap = bound(-(h + t) * FRAC_1_SQRT_2) - bound((t - h) * FRAC_1_SQRT_2);
-        libm::log(0.5 * gap) - 0.5 * (h * h + t * t)
+        let m = 0.5 * (bound(-(h + t) * FRAC_1_SQRT_2) - bound((t - h) * FRAC_1_SQRT_2));
+        (libm::log(m) - 0.5 * (h * h + t * t), INV_SQRT_2PI / m)
     }
 
     /// Inverts b_max − β ≈ 2Φ(−s/2).
@@ -289,7 +307,8 @@ impl Target {
             Objective::Price => {
                 let (m, e) = scaled_price();
                 let slope = INV_SQRT_2PI * libm::exp(-decay);
-                (-(m * libm::exp(-e) - self.beta) / slope, q2, q3)
+                let b = if wing { m * libm::exp(-e) } else { m };
+                (-(b - self.beta) / slope, q2, q3)
             }
             Objective::LogPrice => {
                 let (m, e) = scaled_price();

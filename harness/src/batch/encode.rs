@@ -9,7 +9,7 @@ use std::fmt::Write as _;
 use csv::ByteRecord;
 
 use super::decode::{Header, Quote, GREEK_COLUMNS};
-use super::value::Outcome;
+use super::value::{Failure, Outcome};
 
 /// The output format of `calor batch`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
@@ -80,11 +80,13 @@ pub fn row(
     };
     let numbers = outcome.values.iter().copied().chain(implied);
     let mut numbers_buf = ryu::Buffer::new();
-    // A bad row may not have been checked for UTF-8 (a wrong cell count is
-    // found first): any cell that is not valid UTF-8 is written with U+FFFD.
+    // A decoded row's cells were checked for UTF-8; a row refused by the
+    // decoder may not have been (a wrong cell count is found first), so its
+    // cells that are not valid UTF-8 are written with U+FFFD.
+    let checked = !matches!(outcome.failure, Some(Failure::Decode(_)));
     let cells = (0..header.len()).map(|i| {
         let cell = record.get(i).unwrap_or_default();
-        if std::str::from_utf8(cell).is_ok() {
+        if checked || std::str::from_utf8(cell).is_ok() {
             Cow::Borrowed(cell)
         } else {
             Cow::Owned(String::from_utf8_lossy(cell).into_owned().into_bytes())
