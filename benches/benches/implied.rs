@@ -10,7 +10,7 @@ use std::hint::black_box;
 use criterion::{criterion_group, criterion_main, Criterion, Throughput};
 
 mod common;
-use common::{cases, textbook_implied, Case, Strikes, BATCH};
+use common::{cases, exp_yardstick, textbook_implied, Case, Strikes, BATCH};
 
 fn with_premiums(strikes: Strikes, seed: u64) -> Vec<(Case, f64)> {
     cases(strikes, seed)
@@ -27,17 +27,7 @@ fn with_premiums(strikes: Strikes, seed: u64) -> Vec<(Case, f64)> {
 fn group(c: &mut Criterion, name: &str, batch: &[(Case, f64)]) {
     let mut group = c.benchmark_group(name);
     group.throughput(Throughput::Elements(batch.len() as u64));
-    let exp_args: Vec<f64> = batch
-        .iter()
-        .map(|(c, _)| -c.market.rate * c.contract.expiry)
-        .collect();
-    group.bench_function("libm_exp", |b| {
-        b.iter(|| {
-            black_box(&exp_args)
-                .iter()
-                .fold(0.0, |sum, &x| sum + libm::exp(x))
-        });
-    });
+    exp_yardstick(&mut group, batch.iter().map(|(c, _)| c));
     group.bench_function("textbook_newton_bisection", |b| {
         b.iter(|| {
             black_box(batch)

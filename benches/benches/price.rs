@@ -14,39 +14,14 @@
 
 use std::hint::black_box;
 
-use criterion::{criterion_group, criterion_main, BenchmarkGroup, Criterion, Throughput};
+use criterion::{criterion_group, criterion_main, Criterion};
 
 mod common;
-use common::{cases, textbook, Case, Strikes, BATCH};
+use common::{cases, closed_form_yardsticks, Case, Group, Strikes};
 
 /// The four measurements of one group, over the same batch.
-fn measure(group: &mut BenchmarkGroup<'_, criterion::measurement::WallTime>, batch: &[Case]) {
-    group.throughput(Throughput::Elements(BATCH as u64));
-    let exp_args: Vec<f64> = batch
-        .iter()
-        .map(|c| -c.market.rate * c.contract.expiry)
-        .collect();
-    group.bench_function("libm_exp", |b| {
-        b.iter(|| {
-            black_box(&exp_args)
-                .iter()
-                .fold(0.0, |sum, &x| sum + libm::exp(x))
-        });
-    });
-    group.bench_function("textbook_price", |b| {
-        b.iter(|| {
-            black_box(batch)
-                .iter()
-                .fold(0.0, |sum, case| sum + textbook(case))
-        });
-    });
-    group.bench_function("calor_price", |b| {
-        b.iter(|| {
-            black_box(batch).iter().fold(0.0, |sum, c| {
-                sum + calor::price(&c.contract, &c.market, c.vol).unwrap_or(f64::NAN)
-            })
-        });
-    });
+fn measure(group: &mut Group<'_>, batch: &[Case]) {
+    closed_form_yardsticks(group, batch);
     group.bench_function("calor_greeks", |b| {
         b.iter(|| {
             black_box(batch).iter().fold(0.0, |sum, c| {

@@ -8,10 +8,10 @@
 use std::hint::black_box;
 
 use calor::{price_delta_batch, OptionBatch};
-use criterion::{criterion_group, criterion_main, Criterion, Throughput};
+use criterion::{criterion_group, criterion_main, Criterion};
 
 mod common;
-use common::{cases, textbook, Case, Strikes, BATCH};
+use common::{cases, closed_form_yardsticks, Case, Strikes, BATCH};
 
 /// Structure-of-arrays copy of the cases.
 struct Columns {
@@ -47,32 +47,7 @@ fn group(c: &mut Criterion, name: &str, batch: &[Case]) {
         dividend_yields: &cols.dividend_yields,
     };
     let mut group = c.benchmark_group(name);
-    group.throughput(Throughput::Elements(BATCH as u64));
-    let exp_args: Vec<f64> = batch
-        .iter()
-        .map(|c| -c.market.rate * c.contract.expiry)
-        .collect();
-    group.bench_function("libm_exp", |b| {
-        b.iter(|| {
-            black_box(&exp_args)
-                .iter()
-                .fold(0.0, |sum, &x| sum + libm::exp(x))
-        });
-    });
-    group.bench_function("textbook_price", |b| {
-        b.iter(|| {
-            black_box(batch)
-                .iter()
-                .fold(0.0, |sum, case| sum + textbook(case))
-        });
-    });
-    group.bench_function("scalar_price", |b| {
-        b.iter(|| {
-            black_box(batch).iter().fold(0.0, |sum, c| {
-                sum + calor::price(&c.contract, &c.market, c.vol).unwrap_or(f64::NAN)
-            })
-        });
-    });
+    closed_form_yardsticks(&mut group, batch);
     let (mut prices, mut deltas, mut status) =
         (vec![0.0; BATCH], vec![0.0; BATCH], vec![Ok(()); BATCH]);
     group.bench_function("batch_price_delta", |b| {

@@ -110,6 +110,30 @@ pub struct Greeks {
 }
 
 impl Greeks {
+    /// The fifteen field names, in declaration order.
+    ///
+    /// # Examples
+    /// ```
+    /// assert_eq!(calor::Greeks::NAMES[6], "dividend_rho");
+    /// ```
+    pub const NAMES: [&'static str; 15] = [
+        "price",
+        "delta",
+        "gamma",
+        "vega",
+        "theta",
+        "rho",
+        "dividend_rho",
+        "vanna",
+        "volga",
+        "charm",
+        "veta",
+        "speed",
+        "zomma",
+        "color",
+        "ultima",
+    ];
+
     /// All fifteen values with their names, in declaration order.
     ///
     /// # Examples
@@ -118,22 +142,23 @@ impl Greeks {
     /// assert_eq!(g.named()[14].0, "ultima");
     /// ```
     pub const fn named(&self) -> [(&'static str, f64); 15] {
+        let n = Self::NAMES;
         [
-            ("price", self.price),
-            ("delta", self.delta),
-            ("gamma", self.gamma),
-            ("vega", self.vega),
-            ("theta", self.theta),
-            ("rho", self.rho),
-            ("dividend_rho", self.dividend_rho),
-            ("vanna", self.vanna),
-            ("volga", self.volga),
-            ("charm", self.charm),
-            ("veta", self.veta),
-            ("speed", self.speed),
-            ("zomma", self.zomma),
-            ("color", self.color),
-            ("ultima", self.ultima),
+            (n[0], self.price),
+            (n[1], self.delta),
+            (n[2], self.gamma),
+            (n[3], self.vega),
+            (n[4], self.theta),
+            (n[5], self.rho),
+            (n[6], self.dividend_rho),
+            (n[7], self.vanna),
+            (n[8], self.volga),
+            (n[9], self.charm),
+            (n[10], self.veta),
+            (n[11], self.speed),
+            (n[12], self.zomma),
+            (n[13], self.color),
+            (n[14], self.ultima),
         ]
     }
 }

@@ -152,3 +152,39 @@ pub fn textbook_implied(case: &Case, premium: f64) -> f64 {
     }
     vol
 }
+
+/// A criterion group measured in wall time.
+pub type Group<'a> = criterion::BenchmarkGroup<'a, criterion::measurement::WallTime>;
+
+/// `libm::exp` once per case: the yardstick every ratio is taken against.
+pub fn exp_yardstick<'c>(group: &mut Group<'_>, cases: impl Iterator<Item = &'c Case>) {
+    let exp_args: Vec<f64> = cases.map(|c| -c.market.rate * c.contract.expiry).collect();
+    group.bench_function("libm_exp", |b| {
+        b.iter(|| {
+            std::hint::black_box(&exp_args)
+                .iter()
+                .fold(0.0, |sum, &x| sum + libm::exp(x))
+        });
+    });
+}
+
+/// The yardstick, the textbook closed form and the scalar kernel price on the
+/// same batch, with the group's throughput set to the batch size.
+pub fn closed_form_yardsticks(group: &mut Group<'_>, batch: &[Case]) {
+    group.throughput(criterion::Throughput::Elements(batch.len() as u64));
+    exp_yardstick(group, batch.iter());
+    group.bench_function("textbook_price", |b| {
+        b.iter(|| {
+            std::hint::black_box(batch)
+                .iter()
+                .fold(0.0, |sum, case| sum + textbook(case))
+        });
+    });
+    group.bench_function("calor_price", |b| {
+        b.iter(|| {
+            std::hint::black_box(batch).iter().fold(0.0, |sum, c| {
+                sum + calor::price(&c.contract, &c.market, c.vol).unwrap_or(f64::NAN)
+            })
+        });
+    });
+}

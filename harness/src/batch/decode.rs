@@ -14,23 +14,7 @@ const BOM: &[u8] = b"\xEF\xBB\xBF";
 
 /// The columns the batch writes after the input's own, in this order, before
 /// `implied_vol` (premium books only) and `status`.
-pub const GREEK_COLUMNS: [&str; 15] = [
-    "price",
-    "delta",
-    "gamma",
-    "vega",
-    "theta",
-    "rho",
-    "dividend_rho",
-    "vanna",
-    "volga",
-    "charm",
-    "veta",
-    "speed",
-    "zomma",
-    "color",
-    "ultima",
-];
+pub const GREEK_COLUMNS: [&str; 15] = calor::Greeks::NAMES;
 
 /// Whether a book gives volatilities to value at or premiums to imply from.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]

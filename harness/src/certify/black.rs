@@ -5,23 +5,7 @@ use crate::certify::{show, Worst};
 use crate::tolerance;
 
 /// The fifteen quantities in table order.
-pub const QUANTITIES: [&str; 15] = [
-    "price",
-    "delta",
-    "gamma",
-    "vega",
-    "theta",
-    "rho",
-    "dividend_rho",
-    "vanna",
-    "volga",
-    "charm",
-    "veta",
-    "speed",
-    "zomma",
-    "color",
-    "ultima",
-];
+pub const QUANTITIES: [&str; 15] = calor::Greeks::NAMES;
 
 /// The outcome of the closed-form suite.
 #[derive(Debug, Clone)]
