@@ -162,22 +162,30 @@ pub(crate) fn scaled(m: f64, decay: f64) -> f64 {
     }
 }
 
-/// The two terms of the out-of-the-money value, small·Φ(h + t) and
-/// large·Φ(h − t), whose difference is that value; in the lower wing both are
+/// The out-of-the-money value with its two terms small·Φ(h + t) and
+/// large·Φ(h − t), for the Greeks: the value is computed exactly as
+/// [`otm_value`] computes it (so `greeks(..).price == price(..)` bit for bit)
+/// and the terms share its erfc evaluations. In the lower wing the terms are
 /// written through erfcx with the common factor √(small·large)·exp(−(h² + t²)/2)
-/// so that neither underflows before the product would.
-pub(crate) fn otm_terms(abs_x: f64, s: f64, small: f64, large: f64) -> (f64, f64) {
+/// so that neither underflows before the product would. Requires s > 0.
+pub(crate) fn otm_parts(abs_x: f64, s: f64, small: f64, large: f64) -> (f64, f64, f64) {
     let h = -abs_x / s;
     let t = 0.5 * s;
     if erfcx_wing(h, t) {
+        let (near, far) = (
+            scaled_erfc(-(h + t) * FRAC_1_SQRT_2),
+            scaled_erfc((t - h) * FRAC_1_SQRT_2),
+        );
         let common = 0.5 * libm::sqrt(small) * libm::sqrt(large);
         let decay = 0.5 * (h * h + t * t);
         (
-            scaled(common * scaled_erfc(-(h + t) * FRAC_1_SQRT_2), decay),
-            scaled(common * scaled_erfc((t - h) * FRAC_1_SQRT_2), decay),
+            scaled(common * (near - far).max(0.0), decay),
+            scaled(common * near, decay),
+            scaled(common * far, decay),
         )
     } else {
-        (small * norm_cdf(h + t), large * norm_cdf(h - t))
+        let (near, far) = (small * norm_cdf(h + t), large * norm_cdf(h - t));
+        ((near - far).max(0.0), near, far)
     }
 }
 

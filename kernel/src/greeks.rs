@@ -31,10 +31,10 @@
 //! not trust this table: the references are numerical derivatives of the price
 //! at 50 digits.
 
-use crate::black::{otm_terms, scaled, Setup};
+use crate::black::{otm_parts, scaled, Setup};
 use crate::contract::{Contract, Greeks, Market};
 use crate::error::Error;
-use crate::normal::{norm_cdf, INV_SQRT_2PI};
+use crate::normal::INV_SQRT_2PI;
 
 /// Price and all Greeks of a European option, sharing the common terms.
 ///
@@ -89,29 +89,30 @@ fn diffusive(p: &Setup) -> Greeks {
     let h = p.x / s;
     let half = 0.5 * s;
     let (d1, d2) = (h + half, h - half);
-    // S·e^(−qT)·Φ(ωd1) and K·e^(−rT)·Φ(ωd2). For the out-of-the-money option
-    // they are the two terms of its value, taken in scaled form so that they
-    // keep their digits (and do not underflow) deep in the wing.
+    // S·e^(−qT)·Φ(ωd1) and K·e^(−rT)·Φ(ωd2) from the two terms of the
+    // out-of-the-money value (one pair of erfc evaluations serves the price and
+    // all Greeks): for the out-of-the-money option they are those terms, in
+    // scaled form deep in the wing; in the money they are the legs less the
+    // other option's terms (parity), with no cancellation of consequence.
     let (small, large) = p.otm_legs();
-    let (spot_term, strike_term) = if p.in_the_money() {
-        (
-            p.spot_leg * norm_cdf(w * d1),
-            p.strike_leg * norm_cdf(w * d2),
-        )
+    let (otm, near, far) = otm_parts(libm::fabs(p.x), s, small, large);
+    let price = if p.in_the_money() {
+        otm + (large - small).max(0.0)
     } else {
-        let (near, far) = otm_terms(libm::fabs(p.x), s, small, large);
-        if w > 0.0 {
-            (near, far)
-        } else {
-            (far, near)
-        }
+        otm
+    };
+    let (spot_term, strike_term) = match (p.in_the_money(), w > 0.0) {
+        (false, true) => (near, far),
+        (false, false) => (far, near),
+        (true, true) => (p.spot_leg - far, p.strike_leg - near),
+        (true, false) => (p.spot_leg - near, p.strike_leg - far),
     };
     let a = scaled(
         INV_SQRT_2PI * libm::sqrt(small) * libm::sqrt(large),
         0.5 * (h * h + half * half),
     );
     let mut g = Greeks {
-        price: p.value(),
+        price,
         delta: w * spot_term / spot,
         theta: w * (q * spot_term - r * strike_term),
         rho: w * t * strike_term,
