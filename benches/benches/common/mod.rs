@@ -87,7 +87,8 @@ pub fn norm_cdf(z: f64) -> f64 {
     0.5 * libm::erfc(-z * FRAC_1_SQRT_2)
 }
 
-/// The textbook closed form, S·e^(−qT)·N(d1) − K·e^(−rT)·N(d2) for a call and
+/// The textbook closed form, on the same math library as the kernel (`libm`),
+/// S·e^(−qT)·N(d1) − K·e^(−rT)·N(d2) for a call and
 /// K·e^(−rT)·N(−d2) − S·e^(−qT)·N(−d1) for a put, with no care for the tails.
 pub fn textbook(case: &Case) -> f64 {
     let Case {
@@ -96,8 +97,8 @@ pub fn textbook(case: &Case) -> f64 {
         vol,
     } = *case;
     let t = contract.expiry;
-    let s = vol * t.sqrt();
-    let d1 = ((market.spot / contract.strike).ln()
+    let s = vol * libm::sqrt(t);
+    let d1 = (libm::log(market.spot / contract.strike)
         + (market.rate - market.dividend_yield + 0.5 * vol * vol) * t)
         / s;
     let d2 = d1 - s;
@@ -117,11 +118,11 @@ pub fn textbook_vega(case: &Case) -> f64 {
         vol,
     } = *case;
     let t = contract.expiry;
-    let s = vol * t.sqrt();
-    let d1 = ((market.spot / contract.strike).ln()
+    let s = vol * libm::sqrt(t);
+    let d1 = (libm::log(market.spot / contract.strike)
         + (market.rate - market.dividend_yield + 0.5 * vol * vol) * t)
         / s;
-    market.spot * libm::exp(-market.dividend_yield * t) * libm::exp(-0.5 * d1 * d1) * t.sqrt()
+    market.spot * libm::exp(-market.dividend_yield * t) * libm::exp(-0.5 * d1 * d1) * libm::sqrt(t)
         / (2.0 * std::f64::consts::PI).sqrt()
 }
 
