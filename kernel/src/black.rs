@@ -74,6 +74,7 @@ pub(crate) struct Setup {
 
 impl Setup {
     /// Validates the inputs and computes the shared terms.
+    #[inline]
     pub(crate) fn new(contract: &Contract, market: &Market, vol: f64) -> Result<Self, Error> {
         validate(contract, market, vol)?;
         let (spot, strike, expiry) = (market.spot, contract.strike, contract.expiry);
@@ -114,6 +115,7 @@ impl Setup {
     }
 
     /// The option value.
+    #[inline]
     pub(crate) fn value(&self) -> f64 {
         let (small, large) = self.otm_legs();
         let abs_x = libm::fabs(self.x);
@@ -132,6 +134,7 @@ impl Setup {
 
 /// x = ln(S/K) + (r − q)·T with exact products, so that only the logarithm and
 /// two sums round: the terms largely cancel when the forward is near the strike.
+#[inline]
 fn log_moneyness(spot: f64, strike: f64, rate: f64, dividend_yield: f64, expiry: f64) -> f64 {
     let (carry_q, err_q) = two_product(-dividend_yield, expiry);
     let (carry_r, err_r) = two_product(rate, expiry);
@@ -139,6 +142,7 @@ fn log_moneyness(spot: f64, strike: f64, rate: f64, dividend_yield: f64, expiry:
 }
 
 /// ln(a/b), exact to rounding near a = b and without overflow of the ratio.
+#[inline]
 fn log_ratio(a: f64, b: f64) -> f64 {
     let ratio = a / b;
     if (0.5..=2.0).contains(&ratio) {
@@ -191,6 +195,7 @@ pub(crate) fn otm_parts(abs_x: f64, s: f64, small: f64, large: f64) -> (f64, f64
 
 /// Value of the out-of-the-money option: legs `small` ≤ `large` (S·e^(−qT) and
 /// K·e^(−rT) in some order), |x| = ln(large/small), s = σ√T.
+#[inline]
 pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
     if s <= 0.0 {
         return 0.0;
