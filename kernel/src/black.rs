@@ -132,10 +132,21 @@ impl Setup {
     }
 }
 
-/// x = ln(S/K) + (r − q)·T with exact products, so that only the logarithm and
-/// two sums round: the terms largely cancel when the forward is near the strike.
+/// Up to this |r·T| + |q·T| the carry is summed in plain arithmetic: each
+/// product is then below 1/8 and rounds by at most ε/16, so x moves by at most
+/// ε/8 (an eighth of the rounding of a logarithm near 1), which no quantity in
+/// the reference tables notices. Above it the products are formed exactly.
+const EXACT_CARRY_ABOVE: f64 = 0.125;
+
+/// x = ln(S/K) + (r − q)·T, so that only the logarithm and two sums round when
+/// the carry is large: the terms largely cancel when the forward is near the
+/// strike.
 #[inline]
 fn log_moneyness(spot: f64, strike: f64, rate: f64, dividend_yield: f64, expiry: f64) -> f64 {
+    let (carry_r, carry_q) = (rate * expiry, dividend_yield * expiry);
+    if libm::fabs(carry_r) + libm::fabs(carry_q) <= EXACT_CARRY_ABOVE {
+        return (log_ratio(spot, strike) - carry_q) + carry_r;
+    }
     let (carry_q, err_q) = two_product(-dividend_yield, expiry);
     let (carry_r, err_r) = two_product(rate, expiry);
     (log_ratio(spot, strike) + carry_q) + carry_r + (err_q + err_r)
@@ -144,12 +155,15 @@ fn log_moneyness(spot: f64, strike: f64, rate: f64, dividend_yield: f64, expiry:
 /// ln(a/b), exact to rounding near a = b and without overflow of the ratio.
 #[inline]
 fn log_ratio(a: f64, b: f64) -> f64 {
+    let gap = (a - b) / b;
+    if gap > -0.5 && gap < 1.0 {
+        // a − b is exact here (Sterbenz: b/2 < a < 2b), so only the division
+        // rounds: the error is ε·|ln(a/b)| instead of the ε of a logarithm
+        // evaluated next to 1.
+        return libm::log1p(gap);
+    }
     let ratio = a / b;
-    if (0.5..=2.0).contains(&ratio) {
-        // a − b is exact here (Sterbenz), so only the division rounds: the error is
-        // ε·|ln(a/b)| instead of the ε of a logarithm evaluated next to 1.
-        libm::log1p((a - b) / b)
-    } else if ratio.is_normal() {
+    if ratio.is_normal() {
         libm::log(ratio)
     } else {
         libm::log(a) - libm::log(b)
@@ -203,16 +217,23 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
     let h = -abs_x / s;
     let t = 0.5 * s;
     if erfcx_wing(h, t) {
-        let gap = scaled_erfc(-(h + t) * FRAC_1_SQRT_2) - scaled_erfc((t - h) * FRAC_1_SQRT_2);
-        let decay = 0.5 * (h * h + t * t);
-        // erfcx is decreasing, so gap ≥ 0; rounding may still leave it a hair below.
-        scaled(
-            0.5 * libm::sqrt(small) * libm::sqrt(large) * gap.max(0.0),
-            decay,
-        )
+        wing_value(h, t, small, large)
     } else {
         (small * norm_cdf(h + t) - large * norm_cdf(h - t)).max(0.0)
     }
+}
+
+/// [`otm_value`] in the lower wing, through erfcx. Kept out of line: the
+/// central formula's hot path stays small.
+#[inline(never)]
+fn wing_value(h: f64, t: f64, small: f64, large: f64) -> f64 {
+    let gap = scaled_erfc(-(h + t) * FRAC_1_SQRT_2) - scaled_erfc((t - h) * FRAC_1_SQRT_2);
+    let decay = 0.5 * (h * h + t * t);
+    // erfcx is decreasing, so gap ≥ 0; rounding may still leave it a hair below.
+    scaled(
+        0.5 * libm::sqrt(small) * libm::sqrt(large) * gap.max(0.0),
+        decay,
+    )
 }
 
 /// Price of a European option under Black–Scholes–Merton with a continuous dividend yield.
@@ -248,6 +269,7 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
 /// # Ok::<(), calor::Error>(())
 /// ```
 #[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
+#[inline]
 pub fn price(contract: &Contract, market: &Market, vol: f64) -> Result<f64, Error> {
     let value = Setup::new(contract, market, vol)?.value();
     if value.is_finite() {

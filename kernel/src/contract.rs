@@ -170,7 +170,31 @@ impl Greeks {
 /// # Errors
 /// [`Error::NotFinite`] for NaN or ±∞, [`Error::NotPositive`] for spot or strike
 /// ≤ 0, [`Error::Negative`] for expiry or vol < 0.
+#[inline]
 pub(crate) fn validate(contract: &Contract, market: &Market, vol: f64) -> Result<(), Error> {
+    // One combined test on the hot path (no short-circuit: a handful of
+    // compares and one branch); the field is named only when it fails.
+    let inside = |v: f64, low_ok: bool| low_ok && v < f64::INFINITY;
+    let fine = inside(market.spot, market.spot > 0.0)
+        & inside(contract.strike, contract.strike > 0.0)
+        & inside(contract.expiry, contract.expiry >= 0.0)
+        & inside(market.rate, market.rate > f64::NEG_INFINITY)
+        & inside(
+            market.dividend_yield,
+            market.dividend_yield > f64::NEG_INFINITY,
+        )
+        & inside(vol, vol >= 0.0);
+    if fine {
+        Ok(())
+    } else {
+        diagnose(contract, market, vol)
+    }
+}
+
+/// The first bad field, in the order of [`validate`].
+#[cold]
+#[inline(never)]
+fn diagnose(contract: &Contract, market: &Market, vol: f64) -> Result<(), Error> {
     positive(market.spot, Field::Spot)?;
     positive(contract.strike, Field::Strike)?;
     non_negative(contract.expiry, Field::Expiry)?;
