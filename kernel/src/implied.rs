@@ -176,10 +176,8 @@ struct Target {
     beta: f64,
     /// b_max − β, from the unnormalised premium without cancellation.
     gap: f64,
-    /// ln √(S·e^(−qT)·K·e^(−rT)), the normalisation in log form.
-    ln_root: f64,
-    /// The out-of-the-money premium.
-    otm: f64,
+    /// ln β, exact even where β itself would underflow.
+    ln_beta: f64,
 }
 
 /// What one Householder step needs: ν = −f/f′, h₂ = f″/f′, h₃ = f‴/f′.
@@ -188,19 +186,22 @@ type Terms = (f64, f64, f64);
 impl Target {
     fn new(x: f64, otm: f64, small: f64, large: f64) -> Self {
         let root = libm::sqrt(small) * libm::sqrt(large);
+        let beta = otm / root;
+        // ln β from β while β is a normal number (its rounding is that of the
+        // premium the Price objective sees); from the logarithms of the parts
+        // once β would have lost digits to underflow.
+        let ln_beta = if beta.is_normal() {
+            libm::log(beta)
+        } else {
+            libm::log(otm) - 0.5 * (libm::log(small) + libm::log(large))
+        };
         Target {
             x,
             b_max: libm::exp(0.5 * x),
-            beta: otm / root,
+            beta,
             gap: (small - otm) / root,
-            ln_root: 0.5 * (libm::log(small) + libm::log(large)),
-            otm,
+            ln_beta,
         }
-    }
-
-    /// ln β, exact even where β itself would underflow.
-    fn ln_beta(&self) -> f64 {
-        libm::log(self.otm) - self.ln_root
     }
 
     /// The initial guess and the objective that goes with it.
@@ -217,7 +218,7 @@ impl Target {
                 // (erfcx replaced by its rational bound, A&S 7.1.13) puts closer.
                 let tangent = s_c - (b_c - self.beta) / slope_c;
                 let asymptote = self.lower_asymptote(s_c);
-                let ln_beta = self.ln_beta();
+                let ln_beta = self.ln_beta;
                 let miss = |s: f64| libm::fabs(self.model_ln_b(s) - ln_beta);
                 let mut s = if tangent > 0.0 && miss(tangent) < miss(asymptote) {
                     tangent
@@ -252,7 +253,7 @@ impl Target {
     /// Inverts the leading order ln β ≈ −x²/(2s²) − s²/8 for s < s_c.
     fn lower_asymptote(&self, s_c: f64) -> f64 {
         let x2 = self.x * self.x;
-        let r = -self.ln_beta();
+        let r = -self.ln_beta;
         let disc = (r * r - 0.25 * x2).max(0.0);
         // Smaller root of w²/8 − r·w + x²/2 = 0 in w = s², without cancellation.
         let w = x2 / (r + libm::sqrt(disc));
@@ -319,7 +320,7 @@ impl Target {
                     INV_SQRT_2PI * libm::exp(-decay) / m
                 };
                 (
-                    -(libm::log(m) - e - self.ln_beta()) / r,
+                    -(libm::log(m) - e - self.ln_beta) / r,
                     q2 - r,
                     q3 - 3.0 * r * q2 + 2.0 * r * r,
                 )
