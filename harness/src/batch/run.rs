@@ -9,7 +9,7 @@
 use std::collections::VecDeque;
 use std::fmt;
 use std::io::{self, Read, Write};
-use std::sync::{mpsc, Arc, Mutex};
+use std::sync::mpsc;
 
 use csv::ByteRecord;
 use rayon::prelude::*;
@@ -63,7 +63,6 @@ impl std::error::Error for BatchError {}
 pub struct Started<R> {
     reader: csv::Reader<LineCounting<R>>,
     header: Header,
-    lines: Arc<Mutex<LineIndex>>,
 }
 
 impl<R: Read + Send> Started<R> {
@@ -76,14 +75,13 @@ impl<R: Read + Send> Started<R> {
     /// [`BatchError::Header`] for a missing or unusable header,
     /// [`BatchError::Read`] if reading fails.
     pub fn new(input: R) -> Result<Started<R>, BatchError> {
-        let lines = Arc::new(Mutex::new(LineIndex::default()));
         let mut reader = csv::ReaderBuilder::new()
             .has_headers(false)
             .flexible(true)
             .buffer_capacity(1 << 20)
             .from_reader(LineCounting {
                 inner: input,
-                lines: Arc::clone(&lines),
+                lines: LineIndex::default(),
                 offset: 0,
             });
         let mut first = ByteRecord::new();
@@ -94,11 +92,7 @@ impl<R: Read + Send> Started<R> {
             return Err(BatchError::Header(HeaderError::Empty));
         }
         let header = Header::new(&first).map_err(BatchError::Header)?;
-        Ok(Started {
-            reader,
-            header,
-            lines,
-        })
+        Ok(Started { reader, header })
     }
 
     /// The accepted header.
@@ -112,11 +106,7 @@ impl<R: Read + Send> Started<R> {
     /// [`BatchError::Read`] or [`BatchError::Write`] on an I/O failure; rows
     /// never stop the run.
     pub fn finish<W: Write>(self, output: &mut W, format: Format) -> Result<Summary, BatchError> {
-        let Started {
-            mut reader,
-            header,
-            lines,
-        } = self;
+        let Started { mut reader, header } = self;
         let mut head = Vec::new();
         encode::header_line(&header, format, &mut head);
         output.write_all(&head).map_err(BatchError::Write)?;
@@ -128,7 +118,7 @@ impl<R: Read + Send> Started<R> {
             let (empty_tx, empty_rx) = mpsc::channel::<Chunk>();
             scope.spawn(move || loop {
                 let mut chunk = empty_rx.try_recv().unwrap_or_default();
-                let filled = chunk.fill(&mut reader, &lines);
+                let filled = chunk.fill(&mut reader);
                 let done = !matches!(filled, Ok(true));
                 if full_tx.send(filled.map(|_| chunk)).is_err() || done {
                     break;
@@ -174,8 +164,7 @@ impl Chunk {
     /// count skips blank lines.
     fn fill<R: Read>(
         &mut self,
-        reader: &mut csv::Reader<R>,
-        lines: &Mutex<LineIndex>,
+        reader: &mut csv::Reader<LineCounting<R>>,
     ) -> Result<bool, csv::Error> {
         self.len = 0;
         while self.len < CHUNK_ROWS {
@@ -189,11 +178,8 @@ impl Chunk {
                 return Ok(false);
             }
             if let Some(mut position) = record.position().cloned() {
-                // Locked per record: the reader takes the same lock inside `read`.
-                let line = lines
-                    .lock()
-                    .unwrap_or_else(std::sync::PoisonError::into_inner)
-                    .line_of(position.byte());
+                // The line ends were noted as the CSV reader pulled the bytes.
+                let line = reader.get_mut().lines.line_of(position.byte());
                 position.set_line(line);
                 record.set_position(Some(position));
             }
@@ -210,24 +196,18 @@ impl Chunk {
 /// The input, with the offsets of its line ends noted for [`LineIndex`].
 pub struct LineCounting<R> {
     inner: R,
-    lines: Arc<Mutex<LineIndex>>,
+    lines: LineIndex,
     offset: u64,
 }
 
 impl<R: Read> Read for LineCounting<R> {
     fn read(&mut self, buf: &mut [u8]) -> io::Result<usize> {
         let n = self.inner.read(buf)?;
-        let mut lines = self
-            .lines
-            .lock()
-            .unwrap_or_else(std::sync::PoisonError::into_inner);
         let offset = self.offset;
         let read = buf.get(..n).unwrap_or_default();
-        lines.pending.extend(
-            read.iter()
-                .enumerate()
-                .filter(|(_, b)| matches!(b, b'\n' | b'\r'))
-                .map(|(i, b)| (offset + i as u64, *b == b'\n')),
+        self.lines.pending.extend(
+            memchr::memchr2_iter(b'\n', b'\r', read)
+                .map(|i| (offset + i as u64, read.get(i) == Some(&b'\n'))),
         );
         self.offset += n as u64;
         Ok(n)
