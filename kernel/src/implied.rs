@@ -48,7 +48,7 @@ pub const MAX_ITERATIONS: u32 = 3;
 /// Fraction of b_c (or of b_max − b_c) below which the asymptotic guesses apply.
 const ASYMPTOTIC_FRACTION: f64 = 0.25;
 /// Newton steps on the cheap model of b that refine the lower-wing guess.
-const MODEL_STEPS: usize = 2;
+const MODEL_STEPS: usize = 1;
 /// A correction this small (relative) leaves an error of order its fourth power.
 const CONVERGED_STEP: f64 = 1e-5;
 /// √π.
@@ -225,7 +225,7 @@ impl Target {
                 } else {
                     asymptote
                 };
-                // Two Newton steps on the model in u = 1/s², in which ln b is
+                // A Newton step on the model in u = 1/s², in which ln b is
                 // nearly linear (−x²·u/2 plus slowly varying terms).
                 for _ in 0..MODEL_STEPS {
                     let (ln_m, ratio) = self.model_ln_b_and_slope(s);
