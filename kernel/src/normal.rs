@@ -2,7 +2,8 @@
 //!
 //! Everything here is built on `libm::erfc` and `libm::exp` (the FreeBSD/Sun
 //! fdlibm implementations, themselves after W. J. Cody's rational Chebyshev
-//! approximations), which are accurate to about one ulp over their whole range.
+//! approximations), which are accurate to about one ulp over their whole range,
+//! and on the rational part of fdlibm's `erfc` itself for erfcx.
 
 use core::f64::consts::FRAC_1_SQRT_2;
 
