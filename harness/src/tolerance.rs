@@ -194,30 +194,11 @@ pub struct ExpectedFailure {
     pub reason: &'static str,
 }
 
-/// Why the forward-at-the-money cases below miss: the forward sits at the
-/// strike only because ln(S/K) ≈ 3.8 cancels against (r − q)·T ≈ −3.8, so one
-/// ulp of the logarithm (about 4e-16) is an error of ~150 ulps in h = x/s with
-/// σ√T ≈ 0.02; charm's bracket (2(r−q)T − s·d2) and color's
-/// (q + d1·∂d1/∂T + 1/(2T)) nearly cancel there and amplify it beyond the
-/// price's κ. No f64 evaluation from these inputs does better without a
-/// logarithm correct to a fraction of an ulp.
-const FORWARD_ATM_BY_CANCELLATION: &str = "forward at the strike by cancellation of \
-    ln(S/K) ≈ 3.8 against (r − q)·T: one ulp of the logarithm, amplified by the \
-    Greek's nearly cancelling bracket, exceeds the price's κ";
-
-/// The known misses of `black/greeks.csv`.
-pub const EXPECTED_FAILURES: &[ExpectedFailure] = &[
-    ExpectedFailure {
-        case_id: "g03981",
-        quantity: "charm",
-        reason: FORWARD_ATM_BY_CANCELLATION,
-    },
-    ExpectedFailure {
-        case_id: "g04685",
-        quantity: "color",
-        reason: FORWARD_ATM_BY_CANCELLATION,
-    },
-];
+/// The known misses of `black/greeks.csv`. None: the last two (charm of
+/// g03981, color of g04685, forwards at the strike by cancellation of
+/// ln(S/K) ≈ 2–4 against (r − q)·T) pass since the kernel takes x from the
+/// forward in that case. A miss found later goes here with its reason.
+pub const EXPECTED_FAILURES: &[ExpectedFailure] = &[];
 
 /// The expected failure for a case and quantity, if it is one.
 pub fn expected_failure(case_id: &str, quantity: &str) -> Option<&'static ExpectedFailure> {

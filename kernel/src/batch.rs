@@ -16,7 +16,7 @@
 
 use crate::contract::{Contract, Greeks, Kind, Market};
 use crate::error::{Error, Field};
-use crate::{vector, ImpliedVol};
+use crate::{black, vector, ImpliedVol};
 
 /// The outcome of one element: `Ok(())` or the error that element got.
 pub type ElementStatus = Result<(), Error>;
@@ -358,7 +358,11 @@ fn lane(
     let s = vol * sqrt_t;
     let (carry_q, err_q) = vector::two_product(-q, expiry);
     let (carry_r, err_r) = vector::two_product(rate, expiry);
-    let x = (vector::ln_ratio(spot, strike) + carry_q) + carry_r + (err_q + err_r);
+    let (carry, err_sum) = black::two_sum(carry_r, carry_q);
+    let x = (vector::ln_ratio(spot, strike) + carry) + (err_sum + (err_r + err_q));
+    // Where the scalar path takes x from the forward, so does this element.
+    let forward_route = (if x < 0.0 { -x } else { x }) < black::FORWARD_ROUTE_BELOW
+        && (if carry < 0.0 { -carry } else { carry }) >= black::FORWARD_ROUTE_CARRY;
     let dq = vector::exp(-q * expiry);
     let spot_leg = spot * dq;
     let strike_leg = strike * vector::exp(-rate * expiry);
@@ -385,7 +389,7 @@ fn lane(
         (true, true) => 1.0 - near,
     };
     let delta = omega * dq * cdf;
-    if valid && central {
+    if valid && central && !forward_route {
         (price, delta)
     } else {
         (f64::NAN, f64::NAN)

@@ -138,18 +138,53 @@ impl Setup {
 /// the reference tables notices. Above it the products are formed exactly.
 const EXACT_CARRY_ABOVE: f64 = 0.125;
 
-/// x = ln(S/K) + (r − q)·T, so that only the logarithm and two sums round when
-/// the carry is large: the terms largely cancel when the forward is near the
-/// strike.
+/// Below this |x| with a carry of at least [`FORWARD_ROUTE_CARRY`], x is
+/// taken from the forward (F within a factor 2 of K).
+pub(crate) const FORWARD_ROUTE_BELOW: f64 = 0.69;
+/// From this |(r − q)·T| on, ln(S/K) rounds at 2ε or more (|ln(S/K)| ≥ 2
+/// where x is small), against about ε for the forward.
+pub(crate) const FORWARD_ROUTE_CARRY: f64 = 2.0;
+
+/// x = ln(S/K) + (r − q)·T, with the carry formed first and added to the
+/// logarithm in one sum: where the forward is near the strike that sum cancels
+/// and is exact (Sterbenz), so only the logarithm rounds. When the carry is
+/// large it is formed exactly, as a head and a tail (Dekker's products and
+/// Knuth's two-sum); added to ln(S/K) term by term it would round at the
+/// magnitude of the partial sum, several ulps of x.
 #[inline]
 fn log_moneyness(spot: f64, strike: f64, rate: f64, dividend_yield: f64, expiry: f64) -> f64 {
     let (carry_r, carry_q) = (rate * expiry, dividend_yield * expiry);
     if libm::fabs(carry_r) + libm::fabs(carry_q) <= EXACT_CARRY_ABOVE {
-        return (log_ratio(spot, strike) - carry_q) + carry_r;
+        return log_ratio(spot, strike) + (carry_r - carry_q);
     }
     let (carry_q, err_q) = two_product(-dividend_yield, expiry);
     let (carry_r, err_r) = two_product(rate, expiry);
-    (log_ratio(spot, strike) + carry_q) + carry_r + (err_q + err_r)
+    let (carry, err_sum) = two_sum(carry_r, carry_q);
+    let tail = err_sum + (err_r + err_q);
+    let x = (log_ratio(spot, strike) + carry) + tail;
+    if libm::fabs(x) < FORWARD_ROUTE_BELOW && libm::fabs(carry) >= FORWARD_ROUTE_CARRY {
+        // ln(S/K) is large and rounds at its own magnitude, which the cancelling
+        // carry leaves as an error of x. The forward F = S·e^((r−q)T) rounds
+        // relative to itself instead, and F − K is exact within a factor 2.
+        let forward = spot * (libm::exp(carry) * (1.0 + tail));
+        let direct = libm::log1p((forward - strike) / strike);
+        if direct.is_finite() {
+            return direct;
+        }
+    }
+    x
+}
+
+/// a + b = s + e exactly, with s the rounded sum.
+///
+/// # Source
+/// D. E. Knuth, *The Art of Computer Programming*, vol. 2, 3rd ed.
+/// (Addison-Wesley, 1997), §4.2.2, Theorem B.
+#[inline]
+pub(crate) fn two_sum(a: f64, b: f64) -> (f64, f64) {
+    let s = a + b;
+    let b_part = s - a;
+    (s, (a - (s - b_part)) + (b - b_part))
 }
 
 /// ln(a/b), exact to rounding near a = b and without overflow of the ratio.
