@@ -288,8 +288,13 @@ pub fn check_greeks(data: &[u8]) {
         Kind::Call => Kind::Put,
         Kind::Put => Kind::Call,
     });
-    let Ok(h) = calor::greeks(&other.contract, &other.market, other.vol) else {
-        panic!("{case:?} has Greeks but not its other kind");
+    // The other kind may need a Greek beyond f64::MAX where this one does not
+    // (a put's rho −T·K·e^(−rT)·Φ(−d2) with K near 1e307): that is the only
+    // refusal allowed.
+    let h = match calor::greeks(&other.contract, &other.market, other.vol) {
+        Ok(h) => h,
+        Err(calor::Error::Overflow) => return,
+        Err(e) => panic!("{case:?} has Greeks but its other kind gets {e}"),
     };
     let (call, put) = match case.contract.kind {
         Kind::Call => (g, h),
