@@ -16,7 +16,7 @@
 
 use crate::contract::{Contract, Greeks, Kind, Market};
 use crate::error::{Error, Field};
-use crate::{black, vector, ImpliedVol};
+use crate::{black, normal, vector, ImpliedVol};
 
 /// The outcome of one element: `Ok(())` or the error that element got.
 pub type ElementStatus = Result<(), Error>;
@@ -358,11 +358,10 @@ fn lane(
     let s = vol * sqrt_t;
     let (carry_q, err_q) = vector::two_product(-q, expiry);
     let (carry_r, err_r) = vector::two_product(rate, expiry);
-    let (carry, err_sum) = black::two_sum(carry_r, carry_q);
+    let (carry, err_sum) = normal::two_sum(carry_r, carry_q);
     let x = (vector::ln_ratio(spot, strike) + carry) + (err_sum + (err_r + err_q));
     // Where the scalar path takes x from the forward, so does this element.
-    let forward_route = (if x < 0.0 { -x } else { x }) < black::FORWARD_ROUTE_BELOW
-        && (if carry < 0.0 { -carry } else { carry }) >= black::FORWARD_ROUTE_CARRY;
+    let forward_route = black::forward_route(x, carry);
     let dq = vector::exp(-q * expiry);
     let spot_leg = spot * dq;
     let strike_leg = strike * vector::exp(-rate * expiry);

@@ -31,7 +31,7 @@ use core::f64::consts::FRAC_1_SQRT_2;
 
 use crate::contract::{validate, Contract, Kind, Market};
 use crate::error::Error;
-use crate::normal::{norm_cdf, scaled_erfc, two_product};
+use crate::normal::{norm_cdf, scaled_erfc, two_product, two_sum};
 
 /// Below this h + t the Φ terms of the central formula would lose too much:
 /// each carries the rounding of its argument amplified by (h ± t)², and their
@@ -140,10 +140,19 @@ const EXACT_CARRY_ABOVE: f64 = 0.125;
 
 /// Below this |x| with a carry of at least [`FORWARD_ROUTE_CARRY`], x is
 /// taken from the forward (F within a factor 2 of K).
-pub(crate) const FORWARD_ROUTE_BELOW: f64 = 0.69;
+const FORWARD_ROUTE_BELOW: f64 = 0.69;
 /// From this |(r − q)·T| on, ln(S/K) rounds at 2ε or more (|ln(S/K)| ≥ 2
 /// where x is small), against about ε for the forward.
-pub(crate) const FORWARD_ROUTE_CARRY: f64 = 2.0;
+const FORWARD_ROUTE_CARRY: f64 = 2.0;
+
+/// True where [`log_moneyness`] takes x from the forward: |x| below
+/// [`FORWARD_ROUTE_BELOW`] with a carry of at least [`FORWARD_ROUTE_CARRY`].
+/// Branch-free, for the batch lanes too.
+#[inline]
+pub(crate) fn forward_route(x: f64, carry: f64) -> bool {
+    let abs = |v: f64| if v < 0.0 { -v } else { v };
+    abs(x) < FORWARD_ROUTE_BELOW && abs(carry) >= FORWARD_ROUTE_CARRY
+}
 
 /// x = ln(S/K) + (r − q)·T, with the carry formed first and added to the
 /// logarithm in one sum: where the forward is near the strike that sum cancels
@@ -162,7 +171,7 @@ fn log_moneyness(spot: f64, strike: f64, rate: f64, dividend_yield: f64, expiry:
     let (carry, err_sum) = two_sum(carry_r, carry_q);
     let tail = err_sum + (err_r + err_q);
     let x = (log_ratio(spot, strike) + carry) + tail;
-    if libm::fabs(x) < FORWARD_ROUTE_BELOW && libm::fabs(carry) >= FORWARD_ROUTE_CARRY {
+    if forward_route(x, carry) {
         // ln(S/K) is large and rounds at its own magnitude, which the cancelling
         // carry leaves as an error of x. The forward F = S·e^((r−q)T) rounds
         // relative to itself instead, and F − K is exact within a factor 2.
@@ -173,18 +182,6 @@ fn log_moneyness(spot: f64, strike: f64, rate: f64, dividend_yield: f64, expiry:
         }
     }
     x
-}
-
-/// a + b = s + e exactly, with s the rounded sum.
-///
-/// # Source
-/// D. E. Knuth, *The Art of Computer Programming*, vol. 2, 3rd ed.
-/// (Addison-Wesley, 1997), §4.2.2, Theorem B.
-#[inline]
-pub(crate) fn two_sum(a: f64, b: f64) -> (f64, f64) {
-    let s = a + b;
-    let b_part = s - a;
-    (s, (a - (s - b_part)) + (b - b_part))
 }
 
 /// ln(a/b), exact to rounding near a = b and without overflow of the ratio.

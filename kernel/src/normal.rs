@@ -55,6 +55,18 @@ pub(crate) fn two_product(a: f64, b: f64) -> (f64, f64) {
     (p, e)
 }
 
+/// a + b = s + e exactly, with s the rounded sum.
+///
+/// # Source
+/// D. E. Knuth, *The Art of Computer Programming*, vol. 2, 3rd ed.
+/// (Addison-Wesley, 1997), §4.2.2, Theorem B.
+#[inline]
+pub(crate) fn two_sum(a: f64, b: f64) -> (f64, f64) {
+    let s = a + b;
+    let b_part = s - a;
+    (s, (a - (s - b_part)) + (b - b_part))
+}
+
 /// Below this argument erfcx is formed from `erfc` (cheap there); from it on,
 /// directly from the rational approximation that `erfc` itself uses.
 const RATIONAL_FROM: f64 = 1.25;
