@@ -5,8 +5,8 @@
 //! Nordwind Grain Exchange.
 
 use std::fmt::Write as _;
-use std::io::Write;
-use std::process::{Command, Stdio};
+
+mod common;
 
 /// What one run of `calor batch` gave.
 struct Run {
@@ -53,21 +53,7 @@ impl Run {
 }
 
 fn batch(input: &[u8], extra: &[&str]) -> Run {
-    let mut child = Command::new(env!("CARGO_BIN_EXE_calor"))
-        .args(["batch", "--input", "-", "--output", "-"])
-        .args(extra)
-        .stdin(Stdio::piped())
-        .stdout(Stdio::piped())
-        .stderr(Stdio::piped())
-        .spawn()
-        .expect("the calor binary runs");
-    let mut stdin = child.stdin.take().expect("stdin is piped");
-    let input = input.to_vec();
-    let writer = std::thread::spawn(move || {
-        let _ = stdin.write_all(&input);
-    });
-    let out = child.wait_with_output().expect("calor batch finishes");
-    writer.join().expect("stdin writer");
+    let out = common::batch_stdin(input, extra);
     Run {
         code: out.status.code().unwrap_or(-1),
         stdout: out.stdout,
