@@ -31,7 +31,7 @@ use core::f64::consts::FRAC_1_SQRT_2;
 
 use crate::contract::{validate, Contract, Kind, Market};
 use crate::error::Error;
-use crate::normal::{norm_cdf, scaled_erfc, two_product, two_sum};
+use crate::normal::{norm_cdf, scaled_erfc_parts, two_product, two_sum};
 
 /// Below this h + t the Φ terms of the central formula would lose too much:
 /// each carries the rounding of its argument amplified by (h ± t)², and their
@@ -100,18 +100,24 @@ impl Setup {
         })
     }
 
-    /// (smaller, larger) of S·e^(−qT) and K·e^(−rT): the legs of the out-of-the-money option.
+    /// (smaller, larger) of S·e^(−qT) and K·e^(−rT): the legs of the
+    /// out-of-the-money option (the call when S·e^(−qT) is the smaller).
+    /// Ordered by value rather than by the sign of x, so that no branch is
+    /// taken: in a book of mixed strikes the side is a coin toss that a
+    /// predicted branch gets wrong about half the time. The two orders differ
+    /// only where |x| is within a few ulps of 0 and the legs are equal to
+    /// rounding.
     pub(crate) fn otm_legs(&self) -> (f64, f64) {
-        if self.x <= 0.0 {
-            (self.spot_leg, self.strike_leg)
-        } else {
-            (self.strike_leg, self.spot_leg)
-        }
+        let (a, b) = (self.spot_leg, self.strike_leg);
+        // Compare-and-select, which compiles to the min/max instructions (the
+        // legs are never NaN, so `f64::min`'s NaN handling would be wasted).
+        (if a < b { a } else { b }, if a < b { b } else { a })
     }
 
-    /// True when the option is in the money with respect to the forward.
+    /// True when the option is in the money with respect to the forward
+    /// (its own leg is the larger one), consistently with [`Setup::otm_legs`].
     pub(crate) fn in_the_money(&self) -> bool {
-        self.omega * self.x > 0.0
+        self.omega * (self.spot_leg - self.strike_leg) > 0.0
     }
 
     /// The option value.
@@ -120,15 +126,10 @@ impl Setup {
         let (small, large) = self.otm_legs();
         let abs_x = libm::fabs(self.x);
         let otm = otm_value(abs_x, self.s, small, large);
-        if self.in_the_money() {
-            // large − small is exact when large ≤ 2·small (Sterbenz) and free of
-            // cancellation otherwise: the forward intrinsic value.
-            // The max only matters when a leg has underflowed (e^(−qT) below the
-            // normal range) and no longer agrees with the sign of x.
-            otm + (large - small).max(0.0)
-        } else {
-            otm
-        }
+        // large − small is exact when large ≤ 2·small (Sterbenz) and free of
+        // cancellation otherwise: the forward intrinsic value, added by a
+        // 0/1 weight rather than a branch.
+        otm + f64::from(u8::from(self.in_the_money())) * (large - small)
     }
 }
 
@@ -215,28 +216,16 @@ pub(crate) fn scaled(m: f64, decay: f64) -> f64 {
 /// The out-of-the-money value with its two terms small·Φ(h + t) and
 /// large·Φ(h − t), for the Greeks: the value is computed exactly as
 /// [`otm_value`] computes it (so `greeks(..).price == price(..)` bit for bit)
-/// and the terms share its erfc evaluations. In the lower wing the terms are
-/// written through erfcx with the common factor √(small·large)·exp(−(h² + t²)/2)
-/// so that neither underflows before the product would. Requires s > 0.
+/// and the terms share its erfc evaluations. Requires s > 0.
 pub(crate) fn otm_parts(abs_x: f64, s: f64, small: f64, large: f64) -> (f64, f64, f64) {
-    let h = -abs_x / s;
+    let h = -abs_x * (1.0 / s); // as in otm_value
     let t = 0.5 * s;
-    if erfcx_wing(h, t) {
-        let (near, far) = (
-            scaled_erfc(-(h + t) * FRAC_1_SQRT_2),
-            scaled_erfc((t - h) * FRAC_1_SQRT_2),
-        );
-        let common = 0.5 * libm::sqrt(small) * libm::sqrt(large);
-        let decay = 0.5 * (h * h + t * t);
-        (
-            scaled(common * (near - far).max(0.0), decay),
-            scaled(common * near, decay),
-            scaled(common * far, decay),
-        )
+    let (near, far) = if erfcx_wing(h, t) {
+        wing_terms(h, t, small, large)
     } else {
-        let (near, far) = (small * norm_cdf(h + t), large * norm_cdf(h - t));
-        ((near - far).max(0.0), near, far)
-    }
+        (small * norm_cdf(h + t), large * norm_cdf(h - t))
+    };
+    ((near - far).max(0.0), near, far)
 }
 
 /// Value of the out-of-the-money option: legs `small` ≤ `large` (S·e^(−qT) and
@@ -246,7 +235,10 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
     if s <= 0.0 {
         return 0.0;
     }
-    let h = -abs_x / s;
+    // 1/s is ready long before x (it needs no logarithm), so h costs one
+    // multiplication after x instead of a division on the critical path; the
+    // Greeks form h the same way (greeks::diffusive).
+    let h = -abs_x * (1.0 / s);
     let t = 0.5 * s;
     if erfcx_wing(h, t) {
         wing_value(h, t, small, large)
@@ -255,16 +247,36 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
     }
 }
 
-/// [`otm_value`] in the lower wing, through erfcx. Kept out of line: the
-/// central formula's hot path stays small.
+/// [`otm_value`] in the lower wing. Kept out of line: the central formula's
+/// hot path stays small.
 #[inline(never)]
 fn wing_value(h: f64, t: f64, small: f64, large: f64) -> f64 {
-    let gap = scaled_erfc(-(h + t) * FRAC_1_SQRT_2) - scaled_erfc((t - h) * FRAC_1_SQRT_2);
+    let (near, far) = wing_terms(h, t, small, large);
+    // erfcx is decreasing, so near ≥ far; rounding may still leave a hair below.
+    (near - far).max(0.0)
+}
+
+/// small·Φ(h + t) and large·Φ(h − t) in the lower wing, through erfcx: both
+/// are ½·√(small·large)·erfcx(z)·exp(−(h² + t²)/2), with z = −(h + t)/√2 and
+/// (t − h)/√2. With erfcx(z) = m·exp(e), each term takes one exponential of
+/// e − (h² + t²)/2, a sum formed exactly (two-sum, the tail applied as a
+/// factor), so the decay's own rounding, common to both terms, is the only
+/// one it adds; the factor is applied in halves where it would underflow
+/// before the product does.
+#[inline]
+fn wing_terms(h: f64, t: f64, small: f64, large: f64) -> (f64, f64) {
     let decay = 0.5 * (h * h + t * t);
-    // erfcx is decreasing, so gap ≥ 0; rounding may still leave it a hair below.
-    scaled(
-        0.5 * libm::sqrt(small) * libm::sqrt(large) * gap.max(0.0),
-        decay,
+    let common = 0.5 * libm::sqrt(small) * libm::sqrt(large);
+    let term = |z: f64| {
+        let (e, m) = scaled_erfc_parts(z);
+        let (sum, tail) = two_sum(e, -decay);
+        // A decay that overflowed leaves the tail NaN; the factor is 0 then.
+        let tail = if sum.is_finite() { tail } else { 0.0 };
+        scaled(common * m * (1.0 + tail), -sum)
+    };
+    (
+        term(-(h + t) * FRAC_1_SQRT_2),
+        term((t - h) * FRAC_1_SQRT_2),
     )
 }
 

@@ -172,18 +172,21 @@ impl Greeks {
 /// ≤ 0, [`Error::Negative`] for expiry or vol < 0.
 #[inline]
 pub(crate) fn validate(contract: &Contract, market: &Market, vol: f64) -> Result<(), Error> {
-    // One combined test on the hot path (no short-circuit: a handful of
-    // compares and one branch); the field is named only when it fails.
-    let inside = |v: f64, low_ok: bool| low_ok && v < f64::INFINITY;
-    let fine = inside(market.spot, market.spot > 0.0)
-        & inside(contract.strike, contract.strike > 0.0)
-        & inside(contract.expiry, contract.expiry >= 0.0)
-        & inside(market.rate, market.rate > f64::NEG_INFINITY)
-        & inside(
-            market.dividend_yield,
-            market.dividend_yield > f64::NEG_INFINITY,
-        )
-        & inside(vol, vol >= 0.0);
+    // One combined test on the hot path, on the bit patterns: a few integer
+    // compares and one branch. (Written as float compares, the optimiser turns
+    // each into a classification several times longer.) The test may be
+    // stricter than the rules (it refuses −0 for expiry and vol); the cold path
+    // applies the rules exactly and names the field.
+    const INFINITY: u64 = 0x7FF0_0000_0000_0000;
+    let positive_bits = |v: f64| v.to_bits().wrapping_sub(1) < INFINITY - 1;
+    let non_negative_bits = |v: f64| v.to_bits() < INFINITY;
+    let finite_bits = |v: f64| v.to_bits() & !(1 << 63) < INFINITY;
+    let fine = positive_bits(market.spot)
+        & positive_bits(contract.strike)
+        & non_negative_bits(contract.expiry)
+        & finite_bits(market.rate)
+        & finite_bits(market.dividend_yield)
+        & non_negative_bits(vol);
     if fine {
         Ok(())
     } else {

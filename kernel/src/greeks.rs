@@ -86,7 +86,9 @@ pub fn greeks(contract: &Contract, market: &Market, vol: f64) -> Result<Greeks, 
 fn diffusive(p: &Setup) -> Greeks {
     let (w, vol, t, sqrt_t, s) = (p.omega, p.vol, p.expiry, p.sqrt_t, p.s);
     let (spot, q, r) = (p.spot, p.dividend_yield, p.rate);
-    let h = p.x / s;
+    // As the value's terms form it (black::otm_value), so that the density
+    // below and those terms share the rounding of h.
+    let h = p.x * (1.0 / s);
     let half = 0.5 * s;
     let (d1, d2) = (h + half, h - half);
     // S·e^(−qT)·Φ(ωd1) and K·e^(−rT)·Φ(ωd2) from the two terms of the
