@@ -288,10 +288,18 @@ pub fn decode_row(header: &Header, record: &ByteRecord, line: u64) -> Result<Row
             found: record.len(),
         });
     }
-    if std::str::from_utf8(record.as_slice()).is_err() {
+    let Ok(text) = std::str::from_utf8(record.as_slice()) else {
         return Err(RowError::NotUtf8 { line });
-    }
+    };
     let cell = |i: usize| trim(record.get(i).unwrap_or_default());
+    // A number cell as text, sliced from the row checked above; `None` where
+    // the cell's bounds split a character (then it cannot be a number).
+    let number_cell = |i: usize| {
+        record.range(i).and_then(|r| text.get(r)).map(|c| {
+            let (start, end) = blank_trimmed(c.as_bytes());
+            c.get(start..end).unwrap_or_default()
+        })
+    };
     let kind = match cell(header.kind) {
         b"" => return Err(problem("kind", CellProblem::Empty)),
         k if k.eq_ignore_ascii_case(b"call") => Kind::Call,
@@ -304,19 +312,19 @@ pub fn decode_row(header: &Header, record: &ByteRecord, line: u64) -> Result<Row
         Some(s) if s.eq_ignore_ascii_case(b"american") => Style::American,
         Some(_) => return Err(problem("style", CellProblem::UnknownStyle)),
     };
-    let spot = number(cell(header.spot), "spot")?;
-    let strike = number(cell(header.strike), "strike")?;
-    let expiry = number(cell(header.expiry), "expiry")?;
-    let rate = number(cell(header.rate), "rate")?;
-    let dividend_yield = match header.dividend_yield.map(cell) {
-        None | Some(b"") => 0.0,
+    let spot = number(number_cell(header.spot), "spot")?;
+    let strike = number(number_cell(header.strike), "strike")?;
+    let expiry = number(number_cell(header.expiry), "expiry")?;
+    let rate = number(number_cell(header.rate), "rate")?;
+    let dividend_yield = match header.dividend_yield.map(number_cell) {
+        None | Some(Some("")) => 0.0,
         Some(text) => number(text, "dividend_yield")?,
     };
     let quote_name = match header.quote {
         Quote::Vol => "vol",
         Quote::Premium => "premium",
     };
-    let quote = number(cell(header.quote_column), quote_name)?;
+    let quote = number(number_cell(header.quote_column), quote_name)?;
     Ok(Row {
         contract: Contract {
             kind,
@@ -337,28 +345,34 @@ const fn problem(field: &'static str, problem: CellProblem) -> RowError {
     RowError::Cell { field, problem }
 }
 
-/// A number cell; empty and non-numeric cells are errors naming `field`.
-fn number(text: &[u8], field: &'static str) -> Result<f64, RowError> {
-    if text.is_empty() {
-        return Err(problem(field, CellProblem::Empty));
+/// A number cell (trimmed, `None` if not text by itself); empty and
+/// non-numeric cells are errors naming `field`.
+fn number(text: Option<&str>, field: &'static str) -> Result<f64, RowError> {
+    match text {
+        Some("") => Err(problem(field, CellProblem::Empty)),
+        Some(text) => text
+            .parse::<f64>()
+            .map_err(|_| problem(field, CellProblem::NotANumber)),
+        None => Err(problem(field, CellProblem::NotANumber)),
     }
-    // The row was checked to be UTF-8 as a whole, so this only fails on bytes
-    // that cannot be a number anyway.
-    std::str::from_utf8(text)
-        .ok()
-        .and_then(|s| s.parse::<f64>().ok())
-        .ok_or(problem(field, CellProblem::NotANumber))
 }
 
 /// `cell` without leading and trailing spaces and tabs.
 fn trim(cell: &[u8]) -> &[u8] {
+    let (start, end) = blank_trimmed(cell);
+    cell.get(start..end).unwrap_or_default()
+}
+
+/// The bounds of `cell` without its leading and trailing spaces and tabs
+/// (ASCII bytes, so the bounds of a text cell stay on character boundaries).
+fn blank_trimmed(cell: &[u8]) -> (usize, usize) {
     let blank = |b: &u8| *b == b' ' || *b == b'\t';
     let start = cell.iter().position(|b| !blank(b)).unwrap_or(cell.len());
     let end = cell
         .iter()
         .rposition(|b| !blank(b))
         .map_or(start, |i| i + 1);
-    cell.get(start..end).unwrap_or_default()
+    (start, end)
 }
 
 #[cfg(test)]

@@ -94,11 +94,21 @@ pub fn row(
     });
     match format {
         Format::Csv => {
-            for (i, cell) in cells.enumerate() {
-                if i > 0 {
-                    out.push(b',');
+            if checked && !needs_quotes(record.as_slice()) {
+                // The common row: no cell to quote, so no cell to scan.
+                for i in 0..header.len() {
+                    if i > 0 {
+                        out.push(b',');
+                    }
+                    out.extend_from_slice(record.get(i).unwrap_or_default());
                 }
-                csv_cell(out, &cell);
+            } else {
+                for (i, cell) in cells.enumerate() {
+                    if i > 0 {
+                        out.push(b',');
+                    }
+                    csv_cell(out, &cell);
+                }
             }
             for value in numbers {
                 out.push(b',');
@@ -155,12 +165,15 @@ fn number(out: &mut Vec<u8>, buf: &mut zmij::Buffer, v: f64) {
     }
 }
 
+/// Whether a CSV cell (or all the cells of a row, back to back) holds a byte
+/// that must be quoted.
+fn needs_quotes(bytes: &[u8]) -> bool {
+    memchr::memchr3(b',', b'"', b'\n', bytes).is_some() || memchr::memchr(b'\r', bytes).is_some()
+}
+
 /// A CSV cell, quoted (with doubled quotes) only when it must be.
 fn csv_cell(out: &mut Vec<u8>, cell: &[u8]) {
-    if cell
-        .iter()
-        .any(|b| matches!(b, b',' | b'"' | b'\n' | b'\r'))
-    {
+    if needs_quotes(cell) {
         out.push(b'"');
         for &b in cell {
             if b == b'"' {
