@@ -117,7 +117,12 @@ pub fn row(
                 }
             }
             out.push(b',');
-            csv_cell(out, scratch.as_bytes());
+            if outcome.failure.is_none() {
+                // `ok` needs no quotes.
+                out.extend_from_slice(scratch.as_bytes());
+            } else {
+                csv_cell(out, scratch.as_bytes());
+            }
             out.push(b'\n');
         }
         Format::Jsonl => {
