@@ -126,7 +126,7 @@ fn run_with<R: Read + Send>(
     // leaves an existing output file untouched.
     let started = Started::new(input)?;
     let summary = if args.output.as_os_str() == "-" {
-        let mut out = BufWriter::with_capacity(1 << 18, io::stdout().lock());
+        let mut out = BufWriter::with_capacity(1 << 18, io::stdout());
         started.finish(&mut out, args.format)?
     } else {
         let file = File::create(&args.output)

@@ -1,9 +1,10 @@
 //! The streaming loop: one thread reads chunks of records, the rayon pool
-//! values and encodes each chunk, and the calling thread writes the chunks in
-//! input order.
+//! values and encodes each chunk, and a writer thread writes the encoded
+//! chunks in input order.
 //!
-//! At most three chunks exist at a time (one being read, one waiting, one
-//! being valued), and their records are reused, so memory stays flat however
+//! At most three chunks of records exist at a time (one being read, one
+//! waiting, one being valued) and three chunks of output (one being encoded,
+//! one waiting, one being written), all reused, so memory stays flat however
 //! long the input is.
 
 use std::collections::VecDeque;
@@ -105,14 +106,16 @@ impl<R: Read + Send> Started<R> {
     /// # Errors
     /// [`BatchError::Read`] or [`BatchError::Write`] on an I/O failure; rows
     /// never stop the run.
-    pub fn finish<W: Write>(self, output: &mut W, format: Format) -> Result<Summary, BatchError> {
+    pub fn finish<W: Write + Send>(
+        self,
+        output: &mut W,
+        format: Format,
+    ) -> Result<Summary, BatchError> {
         let Started { mut reader, header } = self;
         let mut head = Vec::new();
         encode::header_line(&header, format, &mut head);
         output.write_all(&head).map_err(BatchError::Write)?;
         let mut summary = Summary::default();
-        // One output buffer per piece, reused from chunk to chunk.
-        let mut buffers: Vec<Vec<u8>> = Vec::new();
         std::thread::scope(|scope| {
             let (full_tx, full_rx) = mpsc::sync_channel::<Result<Chunk, csv::Error>>(1);
             let (empty_tx, empty_rx) = mpsc::channel::<Chunk>();
@@ -124,27 +127,49 @@ impl<R: Read + Send> Started<R> {
                     break;
                 }
             });
+            // The writer: a chunk's output (one buffer per piece) is written
+            // while the next chunk is valued, so a write that waits on the
+            // disk does not hold up the valuation. The buffers come back for
+            // reuse.
+            let (encoded_tx, encoded_rx) = mpsc::sync_channel::<Vec<Vec<u8>>>(1);
+            let (written_tx, written_rx) = mpsc::channel::<Vec<Vec<u8>>>();
+            let writer = scope.spawn(move || {
+                for buffers in encoded_rx {
+                    for bytes in &buffers {
+                        output.write_all(bytes)?;
+                    }
+                    let _ = written_tx.send(buffers);
+                }
+                output.flush()
+            });
             for chunk in full_rx {
                 let chunk = chunk.map_err(BatchError::Read)?;
                 let records = chunk.records();
+                let mut buffers = written_rx.try_recv().unwrap_or_default();
                 buffers.resize_with(records.len().div_ceil(PIECE_ROWS), Vec::new);
                 let counts: Vec<(u64, u64)> = records
                     .par_chunks(PIECE_ROWS)
                     .zip(buffers.par_iter_mut())
                     .map(|(records, bytes)| encode_piece(&header, records, format, bytes))
                     .collect();
-                for (bytes, (ok, bad)) in buffers.iter().zip(counts) {
-                    output.write_all(bytes).map_err(BatchError::Write)?;
+                for (ok, bad) in counts {
                     summary.ok += ok;
                     summary.bad += bad;
                 }
                 summary.rows += chunk.len as u64;
+                // A writer that stopped has failed; its error is reported below.
+                if encoded_tx.send(buffers).is_err() {
+                    break;
+                }
                 // The reader may have finished; then the chunk is just dropped.
                 let _ = empty_tx.send(chunk);
             }
-            Ok::<(), BatchError>(())
+            drop(encoded_tx);
+            match writer.join() {
+                Ok(written) => written.map_err(BatchError::Write),
+                Err(panic) => std::panic::resume_unwind(panic),
+            }
         })?;
-        output.flush().map_err(BatchError::Write)?;
         Ok(summary)
     }
 }
