@@ -39,8 +39,9 @@ const EXP_TAYLOR: [f64; 14] = [
     1.0 / 479_001_600.0,
     1.0 / 6_227_020_800.0,
 ];
-/// 1/(2n + 1) for n = 0..=10, the series of atanh(u)/u in u².
-const ATANH_SERIES: [f64; 11] = [
+/// 1/(2n + 1) for n = 0..=16, the series of atanh(u)/u in u² (here to
+/// n = 10, in the scalar `black::ln_ratio_near_one` to n = 16).
+pub(crate) const ATANH_SERIES: [f64; 17] = [
     1.0,
     1.0 / 3.0,
     1.0 / 5.0,
@@ -52,6 +53,12 @@ const ATANH_SERIES: [f64; 11] = [
     1.0 / 17.0,
     1.0 / 19.0,
     1.0 / 21.0,
+    1.0 / 23.0,
+    1.0 / 25.0,
+    1.0 / 27.0,
+    1.0 / 29.0,
+    1.0 / 31.0,
+    1.0 / 33.0,
 ];
 
 /// 2^k for an integer-valued k in [−1022, 1023], from the exponent bits.
