@@ -149,7 +149,9 @@ const SECOND_RATIONAL_FROM: f64 = 2.857_142_857_142_857;
 /// - 1.25 ≤ x < 26: erfcx(x) = exp(R(s)/S(s) − 0.5625)/x with s = 1/x², the
 ///   rational approximations of fdlibm's `erfc` on [1.25, 1/0.35) and
 ///   [1/0.35, 28), where `erfc` computes exp(−x² − 0.5625 + R/S)/x. Leaving out
-///   the factor exp(−x²) saves the two exponentials `erfc` spends on it.
+///   the factor exp(−x²) saves the two exponentials `erfc` spends on it. R/S
+///   is evaluated in x² (numerator and denominator multiplied through by
+///   x¹⁶), so that 1/x is needed only for the final factor.
 /// - x ≥ 26: the asymptotic series
 ///   erfcx(x) = 1/(x√π)·Σₙ (−1)ⁿ (2n−1)!!/(2x²)ⁿ, truncated after n = 7, whose
 ///   first omitted term is below 2·10⁻¹⁹.
@@ -162,8 +164,8 @@ const SECOND_RATIONAL_FROM: f64 = 2.857_142_857_142_857;
 ///
 /// # Accuracy
 /// Against mpmath at 40 digits: 1.6 ulps worst over 10,000 evenly spaced
-/// points of [0, 30], and 2.0 over 5,000 random points of [1.2, 3], around
-/// the switches; the test `edge_scaled_erfc_against_reference` holds 12
+/// points of [0, 30], and 2.0 over 5,000 random points of [1.2, 3] (around
+/// the switches; 1.8 where x ≥ 1.25); the test `edge_scaled_erfc_against_reference` holds 12
 /// points, on both sides of every switch, to 3 ulps.
 #[inline]
 pub(crate) fn scaled_erfc(x: f64) -> f64 {
@@ -197,16 +199,15 @@ pub(crate) fn scaled_erfc_parts(x: f64) -> (f64, f64) {
 /// (R/S − 0.5625, 1/x) for 1.25 ≤ x < 28: erfc(x) = exp(R/S − 0.5625 − x²)/x.
 #[inline]
 fn rational_parts(x: f64) -> (f64, f64) {
-    // One division: s = 1/x² from 1/x (s only steers the rational, which
-    // varies slowly, so its extra rounding is harmless).
-    let inv = 1.0 / x;
-    let s = inv * inv;
+    // The rational in s = 1/x², evaluated in x² itself: 1/x is then off the
+    // critical path (only the final factor needs it).
+    let square = x * x;
     let ratio = if x < SECOND_RATIONAL_FROM {
-        fdlibm::ratio_a(s)
+        fdlibm::ratio_a(square)
     } else {
-        fdlibm::ratio_b(s)
+        fdlibm::ratio_b(square)
     };
-    (ratio - 0.5625, inv)
+    (ratio - 0.5625, 1.0 / x)
 }
 
 /// The rational approximations of fdlibm's `erfc`.
@@ -336,14 +337,31 @@ mod fdlibm {
         horner(&PA) / horner(&QA)
     }
 
-    /// R/S on [1.25, 1/0.35).
-    pub(super) fn ratio_a(s: f64) -> f64 {
-        estrin(&RA, s) / (1.0 + s * estrin(&SA, s))
+    /// Σ cᵢ·y⁷⁻ⁱ, the polynomial of [`estrin`] with its coefficients
+    /// reversed: P(1/y)·y⁷.
+    fn estrin_reversed(c: &[f64; 8], y: f64) -> f64 {
+        let [c7, c6, c5, c4, c3, c2, c1, c0] = *c;
+        estrin(&[c0, c1, c2, c3, c4, c5, c6, c7], y)
     }
 
-    /// R/S on [1/0.35, 28).
-    pub(super) fn ratio_b(s: f64) -> f64 {
-        estrin(&RB, s) / (1.0 + s * estrin(&SB, s))
+    /// R(s)/(1 + s·S(s)) with s = 1/y, multiplied through by y⁸:
+    /// y·R̃(y)/(y⁸ + S̃(y)) with R̃, S̃ the reversed polynomials. For y ≥ 1.5
+    /// every term keeps the sign of its polynomial's leading one (the two
+    /// constant terms of opposite sign are below 10⁻⁶ of the rest).
+    fn ratio_in_square(r: &[f64; 8], q: &[f64; 8], y: f64) -> f64 {
+        let y2 = y * y;
+        let y8 = (y2 * y2) * (y2 * y2);
+        y * estrin_reversed(r, y) / (y8 + estrin_reversed(q, y))
+    }
+
+    /// R/S on [1.25, 1/0.35), from y = x².
+    pub(super) fn ratio_a(y: f64) -> f64 {
+        ratio_in_square(&RA, &SA, y)
+    }
+
+    /// R/S on [1/0.35, 28), from y = x².
+    pub(super) fn ratio_b(y: f64) -> f64 {
+        ratio_in_square(&RB, &SB, y)
     }
 }
 
