@@ -194,8 +194,10 @@ type Terms = (f64, f64, f64);
 
 impl Target {
     fn new(x: f64, otm: f64, small: f64, large: f64) -> Self {
-        let root = libm::sqrt(small) * libm::sqrt(large);
-        let b_max = libm::exp(0.5 * x);
+        let (root_small, root_large) = (libm::sqrt(small), libm::sqrt(large));
+        let root = root_small * root_large;
+        // e^(x/2) = √(small/large), from the legs: ready before x is.
+        let b_max = root_small / root_large;
         Target {
             x,
             b_max,
