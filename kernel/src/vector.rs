@@ -120,7 +120,7 @@ pub(crate) fn exp(x: f64) -> f64 {
 ///
 /// # Accuracy
 /// About one ulp of the result, and exact to rounding near a = b: the same
-/// property as the scalar path's log1p form.
+/// property as the scalar path's (`black::ln_ratio_near_one`).
 #[inline(always)]
 pub(crate) fn ln_ratio(a: f64, b: f64) -> f64 {
     let bits = (a / b).to_bits();

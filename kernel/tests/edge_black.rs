@@ -60,6 +60,20 @@ fn edge_limit_at_the_strike_refuses_greeks_only() {
 }
 
 #[test]
+fn edge_negative_zero_is_zero() {
+    // −0 passes the rules for expiry and vol (it is not below 0); the fast
+    // check refuses it and the field-by-field check lets it through.
+    let m = market(100.0);
+    for c in [call(90.0, 1.0), put(110.0, 1.0)] {
+        assert_eq!(price(&c, &m, -0.0), price(&c, &m, 0.0));
+    }
+    assert_eq!(
+        price(&call(90.0, -0.0), &m, 0.2),
+        price(&call(90.0, 0.0), &m, 0.2)
+    );
+}
+
+#[test]
 fn edge_vanishing_vol_tends_to_the_limit() {
     let m = market(100.0);
     let limit = price(&call(90.0, 1.0), &m, 0.0).unwrap();
