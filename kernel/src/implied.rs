@@ -39,6 +39,7 @@ use core::f64::consts::FRAC_1_SQRT_2;
 
 use crate::black::{erfcx_wing, Setup};
 use crate::contract::{finite, Contract, Market};
+use crate::elementary::exp;
 use crate::error::{Error, Field};
 use crate::normal::{norm_cdf, scaled_erfc, INV_SQRT_2PI};
 
@@ -325,8 +326,8 @@ impl Target {
         match objective {
             Objective::Price => {
                 let (m, e) = scaled_price();
-                let slope = INV_SQRT_2PI * libm::exp(-decay);
-                let b = if wing { m * libm::exp(-e) } else { m };
+                let slope = INV_SQRT_2PI * exp(-decay);
+                let b = if wing { m * exp(-e) } else { m };
                 (-(b - self.beta) / slope, q2, q3)
             }
             Objective::LogPrice(ln_beta) => {
@@ -335,7 +336,7 @@ impl Target {
                 let r = if wing {
                     INV_SQRT_2PI / m
                 } else {
-                    INV_SQRT_2PI * libm::exp(-decay) / m
+                    INV_SQRT_2PI * exp(-decay) / m
                 };
                 (
                     -(libm::log(m) - e - ln_beta) / r,
@@ -345,7 +346,7 @@ impl Target {
             }
             Objective::LogComplement => {
                 let gap = self.b_max * norm_cdf(-(h + t)) + norm_cdf(h - t) * self.inv_b_max;
-                let u = INV_SQRT_2PI * libm::exp(-decay) / gap;
+                let u = INV_SQRT_2PI * exp(-decay) / gap;
                 (
                     libm::log(gap / self.gap) / u,
                     q2 + u,

@@ -34,6 +34,7 @@
 mod batch;
 mod black;
 mod contract;
+mod elementary;
 mod error;
 #[cfg(feature = "fixed")]
 pub mod fixed;

@@ -4,9 +4,11 @@
 //! FreeBSD/Sun fdlibm `erfc` (themselves after W. J. Cody's rational Chebyshev
 //! approximations), evaluated here for latency: Estrin's scheme instead of
 //! Horner's rule and, in the tail, one exponential of an exactly formed
-//! argument instead of fdlibm's two. Exponentials come from `libm::exp`.
+//! argument instead of fdlibm's two. Exponentials come from `elementary::exp`.
 
 use core::f64::consts::FRAC_1_SQRT_2;
+
+use crate::elementary::exp;
 
 /// 1/√(2π).
 pub(crate) const INV_SQRT_2PI: f64 = 0.398_942_280_401_432_7;
@@ -81,7 +83,7 @@ pub(crate) fn erfc(x: f64) -> f64 {
         let (sum, tail) = two_sum(e, -square);
         let tail = if sum.is_finite() { tail } else { 0.0 };
         // The factor is formed while the exponential runs.
-        let v = libm::exp(sum) * ((1.0 + (tail - square_tail)) * inv);
+        let v = exp(sum) * ((1.0 + (tail - square_tail)) * inv);
         if x > 0.0 {
             v
         } else {
@@ -170,7 +172,7 @@ const SECOND_RATIONAL_FROM: f64 = 2.857_142_857_142_857;
 #[inline]
 pub(crate) fn scaled_erfc(x: f64) -> f64 {
     let (e, m) = scaled_erfc_parts(x);
-    m * libm::exp(e)
+    m * exp(e)
 }
 
 /// erfcx(x) as a pair (e, m) with erfcx(x) = m·exp(e), for the formulas of

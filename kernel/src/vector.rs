@@ -13,61 +13,11 @@
 
 use core::f64::consts::{FRAC_1_SQRT_2, LOG2_E, SQRT_2};
 
-/// 1.5·2⁵²: adding and subtracting it rounds a double below 2⁵¹ to an integer.
-const ROUNDER: f64 = 6_755_399_441_055_744.0;
-/// ln 2 split so that k·LN2_HI is exact for |k| < 2¹¹.
-const LN2_HI: f64 = 6.931_471_803_691_238_2e-1;
-const LN2_LO: f64 = 1.908_214_929_270_587_7e-10;
+use crate::elementary::{pow2, ATANH_SERIES, EXP_TAYLOR, LN2_HI, LN2_LO, ROUNDER};
+
 /// Mantissa and exponent masks of an f64.
 const MANTISSA: u64 = (1 << 52) - 1;
 const EXPONENT_ONE: u64 = 1023 << 52;
-
-/// 1/n! for n = 0..=13, the Taylor coefficients of exp.
-const EXP_TAYLOR: [f64; 14] = [
-    1.0,
-    1.0,
-    1.0 / 2.0,
-    1.0 / 6.0,
-    1.0 / 24.0,
-    1.0 / 120.0,
-    1.0 / 720.0,
-    1.0 / 5040.0,
-    1.0 / 40320.0,
-    1.0 / 362_880.0,
-    1.0 / 3_628_800.0,
-    1.0 / 39_916_800.0,
-    1.0 / 479_001_600.0,
-    1.0 / 6_227_020_800.0,
-];
-/// 1/(2n + 1) for n = 0..=16, the series of atanh(u)/u in u² (here to
-/// n = 10, in the scalar `black::ln_ratio_near_one` to n = 16).
-pub(crate) const ATANH_SERIES: [f64; 17] = [
-    1.0,
-    1.0 / 3.0,
-    1.0 / 5.0,
-    1.0 / 7.0,
-    1.0 / 9.0,
-    1.0 / 11.0,
-    1.0 / 13.0,
-    1.0 / 15.0,
-    1.0 / 17.0,
-    1.0 / 19.0,
-    1.0 / 21.0,
-    1.0 / 23.0,
-    1.0 / 25.0,
-    1.0 / 27.0,
-    1.0 / 29.0,
-    1.0 / 31.0,
-    1.0 / 33.0,
-];
-
-/// 2^k for an integer-valued k in [−1022, 1023], from the exponent bits.
-#[inline(always)]
-fn pow2(k: f64) -> f64 {
-    // The low bits of (k + 1023 + ROUNDER) hold k + 1023; shifting them into the
-    // exponent field drops the rounder's own bit.
-    f64::from_bits((k + 1023.0 + ROUNDER).to_bits() << 52)
-}
 
 /// exp(x) for x in [−708, 709].
 ///
