@@ -202,7 +202,7 @@ impl Target {
         Target {
             x,
             b_max,
-            inv_b_max: 1.0 / b_max,
+            inv_b_max: root_large / root_small,
             beta: otm / root,
             gap: (small - otm) / root,
             otm,
