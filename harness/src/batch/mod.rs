@@ -1,5 +1,6 @@
 //! `calor batch`: a CSV book of options in, one result row per input row out.
 //!
+//! - [`read`]: CSV records from any byte source, with their line numbers.
 //! - [`decode`]: the header's column map and the row decoder (also fuzzed).
 //! - [`value`]: one decoded row through the kernel.
 //! - [`encode`]: CSV or JSON-lines output rows.
@@ -10,6 +11,7 @@
 
 pub mod decode;
 pub mod encode;
+pub mod read;
 pub mod run;
 pub mod value;
 

@@ -7,7 +7,6 @@
 //! one waiting, one being written), all reused, so memory stays flat however
 //! long the input is.
 
-use std::collections::VecDeque;
 use std::fmt;
 use std::io::{self, Read, Write};
 use std::sync::mpsc;
@@ -17,6 +16,7 @@ use rayon::prelude::*;
 
 use super::decode::{Header, HeaderError};
 use super::encode::{self, Format};
+use super::read::RecordReader;
 use super::value::value_record;
 
 /// Records per chunk handed to the pool: large enough to keep every core busy,
@@ -43,7 +43,7 @@ pub enum BatchError {
     /// The header cannot start a batch (exit code 2).
     Header(HeaderError),
     /// Reading the input failed.
-    Read(csv::Error),
+    Read(io::Error),
     /// Writing the output failed.
     Write(io::Error),
 }
@@ -62,34 +62,24 @@ impl std::error::Error for BatchError {}
 
 /// An input whose header has been read and accepted; nothing written yet.
 pub struct Started<R> {
-    reader: csv::Reader<LineCounting<R>>,
+    reader: RecordReader<R>,
     header: Header,
 }
 
 impl<R: Read + Send> Started<R> {
     /// Reads and checks the header of `input`.
     ///
-    /// The CSV dialect: comma-separated, `"` quotes, LF or CRLF line ends,
-    /// rows of any length (a wrong length is the row's error, not the run's).
+    /// The CSV dialect: comma-separated, `"` quotes, LF, CR or CRLF line ends,
+    /// blank lines skipped, rows of any length (a wrong length is the row's
+    /// error, not the run's); see [`RecordReader`].
     ///
     /// # Errors
     /// [`BatchError::Header`] for a missing or unusable header,
     /// [`BatchError::Read`] if reading fails.
     pub fn new(input: R) -> Result<Started<R>, BatchError> {
-        let mut reader = csv::ReaderBuilder::new()
-            .has_headers(false)
-            .flexible(true)
-            .buffer_capacity(1 << 20)
-            .from_reader(LineCounting {
-                inner: input,
-                lines: LineIndex::default(),
-                offset: 0,
-            });
+        let mut reader = RecordReader::new(input);
         let mut first = ByteRecord::new();
-        if !reader
-            .read_byte_record(&mut first)
-            .map_err(BatchError::Read)?
-        {
+        if !reader.read_record(&mut first).map_err(BatchError::Read)? {
             return Err(BatchError::Header(HeaderError::Empty));
         }
         let header = Header::new(&first).map_err(BatchError::Header)?;
@@ -117,7 +107,7 @@ impl<R: Read + Send> Started<R> {
         output.write_all(&head).map_err(BatchError::Write)?;
         let mut summary = Summary::default();
         std::thread::scope(|scope| {
-            let (full_tx, full_rx) = mpsc::sync_channel::<Result<Chunk, csv::Error>>(1);
+            let (full_tx, full_rx) = mpsc::sync_channel::<Result<Chunk, io::Error>>(1);
             let (empty_tx, empty_rx) = mpsc::channel::<Chunk>();
             scope.spawn(move || loop {
                 let mut chunk = empty_rx.try_recv().unwrap_or_default();
@@ -184,13 +174,7 @@ struct Chunk {
 
 impl Chunk {
     /// Reads up to [`CHUNK_ROWS`] records; `Ok(false)` once the input is exhausted.
-    ///
-    /// Each record's position gets the line it starts on: the CSV reader's own
-    /// count skips blank lines.
-    fn fill<R: Read>(
-        &mut self,
-        reader: &mut csv::Reader<LineCounting<R>>,
-    ) -> Result<bool, csv::Error> {
+    fn fill<R: Read>(&mut self, reader: &mut RecordReader<R>) -> io::Result<bool> {
         self.len = 0;
         while self.len < CHUNK_ROWS {
             if self.records.len() == self.len {
@@ -199,14 +183,8 @@ impl Chunk {
             let Some(record) = self.records.get_mut(self.len) else {
                 break;
             };
-            if !reader.read_byte_record(record)? {
+            if !reader.read_record(record)? {
                 return Ok(false);
-            }
-            if let Some(mut position) = record.position().cloned() {
-                // The line ends were noted as the CSV reader pulled the bytes.
-                let line = reader.get_mut().lines.line_of(position.byte());
-                position.set_line(line);
-                record.set_position(Some(position));
             }
             self.len += 1;
         }
@@ -215,55 +193,6 @@ impl Chunk {
 
     fn records(&self) -> &[ByteRecord] {
         self.records.get(..self.len).unwrap_or_default()
-    }
-}
-
-/// The input, with the offsets of its line ends noted for [`LineIndex`].
-pub struct LineCounting<R> {
-    inner: R,
-    lines: LineIndex,
-    offset: u64,
-}
-
-impl<R: Read> Read for LineCounting<R> {
-    fn read(&mut self, buf: &mut [u8]) -> io::Result<usize> {
-        let n = self.inner.read(buf)?;
-        let offset = self.offset;
-        let read = buf.get(..n).unwrap_or_default();
-        self.lines.pending.extend(
-            memchr::memchr2_iter(b'\n', b'\r', read)
-                .map(|i| (offset + i as u64, read.get(i) == Some(&b'\n'))),
-        );
-        self.offset += n as u64;
-        Ok(n)
-    }
-}
-
-/// Line numbers of byte offsets, asked in increasing order: the line ends
-/// (CR or LF) read but not yet passed, and the count of line feeds passed.
-#[derive(Debug, Default)]
-pub struct LineIndex {
-    pending: VecDeque<(u64, bool)>,
-    passed: u64,
-}
-
-impl LineIndex {
-    /// The 1-based line of the first byte at or after `offset` that is not a
-    /// line end: the CSV reader places a record's start before the blank lines
-    /// it skipped. Offsets must not decrease.
-    fn line_of(&mut self, offset: u64) -> u64 {
-        let mut offset = offset;
-        while let Some(&(at, feed)) = self.pending.front() {
-            if at > offset {
-                break;
-            }
-            if at == offset {
-                offset += 1;
-            }
-            self.pending.pop_front();
-            self.passed += u64::from(feed);
-        }
-        self.passed + 1
     }
 }
 
