@@ -83,6 +83,8 @@ def main():
         count = 12 if target == "american_price" else 30
         write(target, binary_seeds(rng, count_words, count))
     write("batch_decode", [s.encode("utf-8") for s in CSV_SEEDS] + CSV_BYTES)
+    # kernel_batch: up to eight price-layout options back to back.
+    write("kernel_batch", [b"".join(binary_seeds(rng, 6, 1 + i % 8)) for i in range(20)])
 
 
 if __name__ == "__main__":

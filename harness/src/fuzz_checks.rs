@@ -549,6 +549,222 @@ pub fn check_heat_step(data: &[u8]) {
     }
 }
 
+/// Bytes per option of [`check_kernel_batch`]: a flag byte and six words.
+const BATCH_CASE_BYTES: usize = 1 + 8 * 6;
+
+/// `kernel_batch`: the kernel's batch entry points (`price_batch`,
+/// `price_delta_batch`, `greeks_batch`, `implied_vol_batch`) on up to eight
+/// options, each laid out as one [`check_price`] input of 49 bytes. Nothing is
+/// lost: every element's status agrees with the scalar call on the same
+/// inputs, the count returned is that of the `Ok` statuses, an `Ok` element is
+/// finite, and its price is the scalar price within [`BOUND_ULPS`]. The
+/// implied vols come from the batch's own prices (in raw mode, from the vol
+/// words themselves) and equal the scalar solver's bit for bit. In the
+/// variant, a vol slice one short is refused first. A slice of the wrong
+/// length is refused, naming it, with nothing written.
+///
+/// # Panics
+/// When an invariant fails: that is the finding.
+pub fn check_kernel_batch(data: &[u8]) {
+    let input = Input::new(data);
+    let cases: Vec<Case> = data
+        .chunks(BATCH_CASE_BYTES)
+        .take(8)
+        .map(|chunk| Case::from_input(&Input::new(chunk)))
+        .collect();
+    let n = cases.len();
+    let kinds: Vec<Kind> = cases.iter().map(|c| c.contract.kind).collect();
+    let column = |f: fn(&Case) -> f64| cases.iter().map(f).collect::<Vec<f64>>();
+    let (spots, strikes, expiries) = (
+        column(|c| c.market.spot),
+        column(|c| c.contract.strike),
+        column(|c| c.contract.expiry),
+    );
+    let (rates, dividend_yields, vols) = (
+        column(|c| c.market.rate),
+        column(|c| c.market.dividend_yield),
+        column(|c| c.vol),
+    );
+    let options = calor::OptionBatch {
+        kinds: &kinds,
+        spots: &spots,
+        strikes: &strikes,
+        expiries: &expiries,
+        rates: &rates,
+        dividend_yields: &dividend_yields,
+    };
+    let mut prices = vec![f64::NAN; n];
+    let mut deltas = vec![f64::NAN; n];
+    let mut status = vec![Ok(()); n];
+    if input.variant() && n > 0 {
+        let short = vols.get(1..).unwrap_or_default();
+        let refused = calor::price_batch(&options, short, &mut prices, &mut status);
+        assert_eq!(
+            refused,
+            Err(calor::Error::LengthMismatch {
+                field: calor::Field::Vol
+            })
+        );
+        assert!(
+            prices.iter().all(|p| p.is_nan()),
+            "a refused batch wrote prices"
+        );
+    }
+    let Ok(count) = calor::price_batch(&options, &vols, &mut prices, &mut status) else {
+        panic!("price_batch refused slices of one length");
+    };
+    agree_with_scalar("price_batch", &cases, &prices, &status, count);
+    let mut pair_prices = vec![f64::NAN; n];
+    let mut pair_status = vec![Ok(()); n];
+    let Ok(pair_count) = calor::price_delta_batch(
+        &options,
+        &vols,
+        &mut pair_prices,
+        &mut deltas,
+        &mut pair_status,
+    ) else {
+        panic!("price_delta_batch refused slices of one length");
+    };
+    agree_with_scalar(
+        "price_delta_batch",
+        &cases,
+        &pair_prices,
+        &pair_status,
+        pair_count,
+    );
+    for (i, (delta, st)) in deltas.iter().zip(&pair_status).enumerate() {
+        assert!(
+            st.is_err() || delta.is_finite(),
+            "element {i}: delta {delta}"
+        );
+    }
+    let mut greeks = vec![calor::Greeks::default(); n];
+    let mut greek_status = vec![Ok(()); n];
+    let Ok(greek_count) = calor::greeks_batch(&options, &vols, &mut greeks, &mut greek_status)
+    else {
+        panic!("greeks_batch refused slices of one length");
+    };
+    let greek_prices: Vec<f64> = greeks.iter().map(|g| g.price).collect();
+    agree_with_scalar(
+        "greeks_batch",
+        &cases,
+        &greek_prices,
+        &greek_status,
+        greek_count,
+    );
+    let premiums: Vec<f64> = if input.raw() {
+        vols.clone()
+    } else {
+        prices.clone()
+    };
+    implied_agree_with_scalar(&options, &cases, &premiums);
+}
+
+/// `implied_vol_batch` on `premiums`: each element as the scalar solver,
+/// status and value bit for bit, and the count that of the `Ok`s.
+fn implied_agree_with_scalar(options: &calor::OptionBatch<'_>, cases: &[Case], premiums: &[f64]) {
+    let n = cases.len();
+    let mut implied = vec![f64::NAN; n];
+    let mut implied_status = vec![Ok(()); n];
+    let Ok(implied_count) =
+        calor::implied_vol_batch(options, premiums, &mut implied, &mut implied_status)
+    else {
+        panic!("implied_vol_batch refused slices of one length");
+    };
+    let mut ok = 0;
+    for (i, case) in cases.iter().enumerate() {
+        let premium = premiums.get(i).copied().unwrap_or(f64::NAN);
+        let scalar = calor::implied_vol(&case.contract, &case.market, premium);
+        let (got, st) = (implied.get(i).copied(), implied_status.get(i).copied());
+        match scalar {
+            Ok(v) => {
+                ok += 1;
+                assert_eq!(
+                    st,
+                    Some(Ok(())),
+                    "element {i}: batch refused, scalar gave {v}"
+                );
+                assert_eq!(got.map(f64::to_bits), Some(v.to_bits()), "element {i}");
+            }
+            Err(e) => assert_eq!(st, Some(Err(e)), "element {i}: statuses differ"),
+        }
+    }
+    assert_eq!(implied_count, ok, "implied_vol_batch count");
+}
+
+/// Each element's status is the scalar call's on the same inputs (`price`
+/// for `price_batch`; `greeks` for the batches that also give Greeks), `count`
+/// the number of `Ok`s, an `Ok` price finite and (in the domain) within
+/// [`BOUND_ULPS`] of the scalar one, a refused element NaN.
+fn agree_with_scalar(
+    name: &str,
+    cases: &[Case],
+    prices: &[f64],
+    status: &[calor::ElementStatus],
+    count: usize,
+) {
+    let scalar = |c: &Case| {
+        if name != "price_batch" {
+            calor::greeks(&c.contract, &c.market, c.vol).map(|g| g.price)
+        } else {
+            calor::price(&c.contract, &c.market, c.vol)
+        }
+    };
+    let mut ok = 0;
+    for (i, case) in cases.iter().enumerate() {
+        let got = prices.get(i).copied().unwrap_or(f64::NAN);
+        let st = status.get(i).copied();
+        match scalar(case) {
+            Ok(want) => {
+                ok += 1;
+                assert_eq!(
+                    st,
+                    Some(Ok(())),
+                    "{name} element {i}: refused, scalar {want}"
+                );
+                assert!(got.is_finite(), "{name} element {i}: {got} for {case:?}");
+                let tol = BOUND_ULPS * case.ulp_scale(case.vol) + 4.0 * f64::EPSILON * want;
+                assert!(
+                    !case.in_domain() || (got - want).abs() <= tol,
+                    "{name} element {i}: {got} against scalar {want} for {case:?}"
+                );
+            }
+            Err(e) => {
+                assert_eq!(st, Some(Err(e)), "{name} element {i}: statuses differ");
+                assert!(got.is_nan(), "{name} element {i}: refused but wrote {got}");
+            }
+        }
+    }
+    assert_eq!(count, ok, "{name} count");
+}
+
+/// The batch's own record reader splits `data` into the same records as the
+/// `csv` crate did (`first`, then `rows`).
+fn check_reader_agrees(data: &[u8], first: &csv::ByteRecord, rows: &[csv::ByteRecord]) {
+    let mut own = batch::read::RecordReader::new(data);
+    let mut record = csv::ByteRecord::new();
+    assert!(own.read_record(&mut record).unwrap_or(false));
+    assert_eq!(
+        record.iter().collect::<Vec<_>>(),
+        first.iter().collect::<Vec<_>>()
+    );
+    for (i, row) in rows.iter().enumerate() {
+        assert!(
+            own.read_record(&mut record).unwrap_or(false),
+            "row {i} missing"
+        );
+        assert_eq!(
+            record.iter().collect::<Vec<_>>(),
+            row.iter().collect::<Vec<_>>(),
+            "row {i}"
+        );
+    }
+    assert!(
+        !own.read_record(&mut record).unwrap_or(true),
+        "an extra row"
+    );
+}
+
 /// The batch decoder and the whole in-memory batch on any bytes taken as a
 /// CSV book: no panic; a refused header is the only early stop; otherwise
 /// exactly one output row per input row, each as wide as the output header,
@@ -571,6 +787,7 @@ pub fn check_batch_decode(data: &[u8]) {
         return;
     };
     let rows: Vec<csv::ByteRecord> = records.map_while(Result::ok).collect();
+    check_reader_agrees(data, &first, &rows);
     for (i, row) in rows.iter().enumerate() {
         let line = row.position().map_or(0, csv::Position::line);
         if let Ok(decoded) = batch::decode::decode_row(&header, row, line) {
@@ -647,11 +864,12 @@ pub fn check_batch_decode(data: &[u8]) {
 pub type Check = fn(&[u8]);
 
 /// Every check by target name, for the replay test and the fuzz crate.
-pub const TARGETS: [(&str, Check); 6] = [
+pub const TARGETS: [(&str, Check); 7] = [
     ("price", check_price),
     ("greeks", check_greeks),
     ("implied_vol", check_implied_vol),
     ("american_price", check_american_price),
     ("heat_step", check_heat_step),
     ("batch_decode", check_batch_decode),
+    ("kernel_batch", check_kernel_batch),
 ];

@@ -83,6 +83,11 @@ fn fuzz_replay_batch_decode() {
 }
 
 #[test]
+fn fuzz_replay_kernel_batch() {
+    assert!(replay("kernel_batch") > 0);
+}
+
+#[test]
 fn fuzz_replay_every_target_has_a_test() {
     let source = include_str!("fuzz_replay.rs");
     for (name, _) in TARGETS {

@@ -109,7 +109,9 @@ pub(crate) fn ln_ratio(a: f64, b: f64) -> f64 {
 /// Within one ulp of the correctly rounded root (checked against `libm::sqrt`).
 #[inline(always)]
 pub(crate) fn sqrt(x: f64) -> f64 {
-    let mut r = f64::from_bits(0x5FE6_EB50_C7B5_37A9 - (x.to_bits() >> 1));
+    // Wrapping: the batch's fast pass also runs over the lanes it refuses
+    // (negative, NaN, infinite), whose bits are above the constant's double.
+    let mut r = f64::from_bits(0x5FE6_EB50_C7B5_37A9_u64.wrapping_sub(x.to_bits() >> 1));
     let half = 0.5 * x;
     r *= 1.5 - half * r * r;
     r *= 1.5 - half * r * r;
