@@ -704,10 +704,10 @@ fn agree_with_scalar(
     count: usize,
 ) {
     let scalar = |c: &Case| {
-        if name != "price_batch" {
-            calor::greeks(&c.contract, &c.market, c.vol).map(|g| g.price)
-        } else {
+        if name == "price_batch" {
             calor::price(&c.contract, &c.market, c.vol)
+        } else {
+            calor::greeks(&c.contract, &c.market, c.vol).map(|g| g.price)
         }
     };
     let mut ok = 0;
