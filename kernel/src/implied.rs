@@ -17,12 +17,16 @@
 //! - far above (b_max − β < (b_max − b_c)/4): the upper asymptote
 //!   b_max − b ≈ 2Φ(−s/2), inverted with the rational approximation of
 //!   Abramowitz & Stegun 26.2.23; the iteration works on ln(b_max − b);
-//! - otherwise the tangent at the inflection point (exact to second order
-//!   there), and the iteration works on b itself. Below s_c the tangent's
-//!   offset y = (β − b_c)/b′(s_c) gets its cubic correction: b‴/b′ = −1 at
-//!   s_c, so b ≈ b_c + b′(s_c)·(d − d³/6) and d ≈ y·(1 + y²/6). Above s_c,
+//! - otherwise the iteration works on b itself, from a guess taken at the
+//!   inflection point, where b_c and b′(s_c) are known without a further
+//!   evaluation of b. Below s_c it is the iteration's own step (see below)
+//!   taken from s_c: the Taylor series of b about s_c reverted to degree
+//!   seven, whose coefficients there reduce to polynomials in u = |x|/4
+//!   (R₂ = 0, R₃ = 4u/3, R₄ = −u, R₅ = u + 56u²/15, R₆ = −u − 20u²/3,
+//!   R₇ = u + 32u²/3 + 4064u³/315); to third order it is the tangent's offset
+//!   y = (β − b_c)/b′(s_c) with its cubic correction y·(1 + y²/6). Above s_c,
 //!   where b‴/b′ climbs from −1 towards −1/4 within a short distance, the
-//!   correction overshoots and the plain tangent stays.
+//!   series overshoots and the plain tangent s_c + y is the guess.
 //!
 //! On the logarithmic objectives each step is Householder's of order four,
 //! s ← s + ν·(1 + h₂ν/2)/(1 + ν·(h₂ + h₃ν/6)) with ν = −f/f′, h₂ = f″/f′,
@@ -57,11 +61,13 @@ use crate::normal::{norm_cdf, scaled_erfc, INV_SQRT_2PI};
 pub const MAX_ITERATIONS: u32 = 3;
 
 /// Fraction of b_c below which the lower asymptotic guess applies. Above it
-/// the tangent is within about a third of the root and the iteration on b
-/// converges within the bound; at 0.25 (the upper side's fraction) a quarter
-/// of the benchmark's near-the-money quotes took the costlier lower-wing guess
-/// and iteration, against 8 % now.
-const LOWER_FRACTION: f64 = 0.05;
+/// the guess reverted from the inflection point is within about a quarter of
+/// the root (an mpmath scan over |x| from 10⁻¹⁰ to 10³) and the iteration on b
+/// converges within the bound. The lower-wing guess and iteration cost more
+/// than the iteration on b: at 0.05, 8 % of the benchmark's near-the-money
+/// quotes took them, 4 % at 0.02; at 0.01 the reference round trips needing
+/// three iterations grow from 551 to 578.
+const LOWER_FRACTION: f64 = 0.02;
 /// Fraction of b_max − b_c below which the upper asymptotic guess applies.
 const UPPER_FRACTION: f64 = 0.25;
 /// Newton steps on the cheap model of b that refine the lower-wing guess.
@@ -286,14 +292,7 @@ impl Target {
                 }
                 (s, Objective::LogPrice(ln_beta))
             } else {
-                // The tangent's offset y and its cubic correction (module
-                // documentation). It takes 6 % of the benchmark's near-the-money
-                // quotes from two iterations to one. Where y is near −s_c the
-                // cubic can cross zero, and the tangent (then positive) stays.
-                let y = (self.beta - b_c) * (SQRT_2PI * self.inv_b_max);
-                let cubic = s_c + y * (1.0 + y * y / 6.0);
-                let s = if cubic > 0.0 { cubic } else { s_c + y };
-                (s, Objective::Price)
+                (self.reverted_from_inflection(s_c, b_c), Objective::Price)
             }
         } else {
             let gap_c = self.b_max - b_c;
@@ -305,6 +304,24 @@ impl Target {
                     Objective::Price,
                 )
             }
+        }
+    }
+
+    /// The guess for b_c/50 ≤ β ≤ b_c: the reverted step from s_c (module
+    /// documentation). Against the tangent with its cubic correction it takes
+    /// 10 % of the benchmark's near-the-money quotes from two iterations to one.
+    fn reverted_from_inflection(&self, s_c: f64, b_c: f64) -> f64 {
+        // ν = (β − b_c)/(s_c·b′(s_c)) lies in (−1, 0): b is convex below s_c
+        // and b(0) = 0, so b_c < s_c·b′(s_c).
+        let y = (self.beta - b_c) * (SQRT_2PI * self.inv_b_max);
+        let (delta, _) = reverted_step(y / s_c, &inflection_coefficients(-0.25 * self.x));
+        // The series stayed inside (−1, 0) on the scan and on the reference
+        // tables; should rounding ever take it out, the tangent (positive by
+        // the same convexity) is the guess.
+        if delta > -1.0 {
+            s_c * (1.0 + delta)
+        } else {
+            s_c + y
         }
     }
 
@@ -485,6 +502,21 @@ fn reversion_coefficients(hh: f64, tt: f64) -> [f64; 6] {
     [r2, r3, r4, r5, r6, r7]
 }
 
+/// [`reversion_coefficients`] at the inflection point, where H = u and T = 2u
+/// with u = |x|/4: polynomials in u alone (expanded with sympy from the
+/// general ones; the unit test compares the two).
+fn inflection_coefficients(u: f64) -> [f64; 6] {
+    let u2 = u * u;
+    [
+        0.0,
+        u * (4.0 / 3.0),
+        -u,
+        u + u2 * (56.0 / 15.0),
+        -u - u2 * (20.0 / 3.0),
+        u + u2 * ((32.0 / 3.0) + u * (4064.0 / 315.0)),
+    ]
+}
+
 /// δ from ν and the reversion coefficients, and the size of its last term.
 fn reverted_step(nu: f64, r: &[f64; 6]) -> (f64, f64) {
     // Estrin's scheme: the step is on the iteration's critical path.
@@ -585,6 +617,24 @@ mod tests {
                 assert!(
                     (d - w).abs() <= 1e-12 * scale,
                     "R{} at H = {hh}, T = {tt}: {d} against {w}",
+                    k + 2
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn unit_inflection_coefficients_match_the_general_ones() {
+        // Up to |x| = 10: beyond, the general polynomials' terms of opposite
+        // sign (H and T both large) cancel and they lose more digits than this
+        // comparison allows.
+        for u in [0.0, 1e-6, 0.01, 0.25, 1.0, 2.5] {
+            let at_inflection = inflection_coefficients(u);
+            let general = reversion_coefficients(u, 2.0 * u);
+            for (k, (a, g)) in at_inflection.iter().zip(general).enumerate() {
+                assert!(
+                    (a - g).abs() <= 1e-13 * g.abs().max(1.0),
+                    "R{} at u = {u}: {a} against {g}",
                     k + 2
                 );
             }
