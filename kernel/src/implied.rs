@@ -311,17 +311,20 @@ impl Target {
     /// documentation). Against the tangent with its cubic correction it takes
     /// 10 % of the benchmark's near-the-money quotes from two iterations to one.
     fn reverted_from_inflection(&self, s_c: f64, b_c: f64) -> f64 {
-        // ν = (β − b_c)/(s_c·b′(s_c)) lies in (−1, 0): b is convex below s_c
-        // and b(0) = 0, so b_c < s_c·b′(s_c).
+        // ν = (β − b_c)/(s_c·b′(s_c)) lies in (−1, 0) in exact arithmetic: b
+        // is convex below s_c and b(0) = 0, so b_c < s_c·b′(s_c), by a margin
+        // of order |x|·b_c. b_c is the difference of two terms near ½, so it
+        // carries an absolute error of order ε, and for |x| below about
+        // 10⁻¹¹ that error can exceed the margin: ν then falls below −1 and
+        // so would the tangent s_c·(1 + ν) below zero.
         let y = (self.beta - b_c) * (SQRT_2PI * self.inv_b_max);
         let (delta, _) = reverted_step(y / s_c, &inflection_coefficients(-0.25 * self.x));
-        // The series stayed inside (−1, 0) on the scan and on the reference
-        // tables; should rounding ever take it out, the tangent (positive by
-        // the same convexity) is the guess.
         if delta > -1.0 {
             s_c * (1.0 + delta)
         } else {
-            s_c + y
+            // The chord from the origin, positive as 0 < β ≤ b_c, and a lower
+            // bound of the root by the same convexity.
+            s_c * (self.beta / b_c)
         }
     }
 

@@ -145,3 +145,26 @@ fn ref_implied_textbook_hull() {
     assert!((r.vol - 0.234_512_913_997_643_8).abs() < 1e-15, "{}", r.vol);
     assert!(r.iterations <= calor::MAX_ITERATIONS);
 }
+
+#[test]
+fn edge_implied_inexact_inflection_value_keeps_the_guess_positive() {
+    // Found by the implied_vol fuzz target: legs equal to rounding, |x| ≈ 6e-33
+    // and a premium of 9e-18 of the legs. b_c then carries a rounding error
+    // larger than its distance from the tangent's root at zero, and the
+    // tangent guess was negative: the solver returned a vol of −9.3e137.
+    let c = Contract {
+        kind: Kind::Call,
+        strike: 3.644_696_722_363_173_4e88,
+        expiry: 1.280_977_553_43e-312,
+    };
+    let m = Market {
+        spot: 3.644_696_722_363_173_4e88,
+        rate: 4.538_291_337_560_359e279,
+        dividend_yield: 7.142_483_541_982_407e-251,
+    };
+    let premium = 3.330_324_999_909_473e71;
+    match implied_vol(&c, &m, premium) {
+        Ok(vol) => assert!(vol.is_finite() && vol >= 0.0, "vol {vol}"),
+        Err(e) => assert_eq!(e, Error::Overflow),
+    }
+}
