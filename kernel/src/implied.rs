@@ -315,7 +315,7 @@ impl Target {
         // is convex below s_c and b(0) = 0, so b_c < s_c·b′(s_c), by a margin
         // of order |x|·b_c. b_c is the difference of two terms near ½, so it
         // carries an absolute error of order ε, and for |x| below about
-        // 10⁻¹¹ that error can exceed the margin: ν then falls below −1 and
+        // 4·10⁻¹¹ that error can exceed the margin: ν then falls below −1 and
         // so would the tangent s_c·(1 + ν) below zero.
         let y = (self.beta - b_c) * (SQRT_2PI * self.inv_b_max);
         let (delta, _) = reverted_step(y / s_c, &inflection_coefficients(-0.25 * self.x));
