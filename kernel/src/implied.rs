@@ -299,12 +299,15 @@ impl Target {
             if self.gap < UPPER_FRACTION * gap_c {
                 (self.upper_asymptote(), Objective::LogComplement)
             } else {
-                (
-                    s_c + (self.beta - b_c) * (SQRT_2PI * self.inv_b_max),
-                    Objective::Price,
-                )
+                (s_c + self.tangent_offset(b_c), Objective::Price)
             }
         }
+    }
+
+    /// The tangent's offset from s_c, y = (β − b_c)/b′(s_c) with
+    /// b′(s_c) = b_max/√(2π), for the guesses of the iteration on b.
+    fn tangent_offset(&self, b_c: f64) -> f64 {
+        (self.beta - b_c) * (SQRT_2PI * self.inv_b_max)
     }
 
     /// The guess for b_c/50 ≤ β ≤ b_c: the reverted step from s_c (module
@@ -317,7 +320,7 @@ impl Target {
         // carries an absolute error of order ε, and for |x| below about
         // 4·10⁻¹¹ that error can exceed the margin: ν then falls below −1 and
         // so would the tangent s_c·(1 + ν) below zero.
-        let y = (self.beta - b_c) * (SQRT_2PI * self.inv_b_max);
+        let y = self.tangent_offset(b_c);
         let (delta, _) = reverted_step(y / s_c, &inflection_coefficients(-0.25 * self.x));
         if delta > -1.0 {
             s_c * (1.0 + delta)
