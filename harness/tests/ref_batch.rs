@@ -230,3 +230,55 @@ fn edge_batch_bad_elements_and_lengths() {
         })
     );
 }
+
+/// Options so small and so short-dated that gamma and the Greeks after it
+/// exceed the range of f64 while price and delta do not: `greeks` refuses
+/// them, `price_delta_batch` values them on either of its paths. The first
+/// element takes the lane path (a fuzz finding: the scalar path refused what
+/// the lane path valued), the second, at a spot of 10⁻³⁰⁰, the scalar path.
+#[test]
+fn edge_batch_price_delta_values_options_whose_higher_greeks_overflow() {
+    let tiny = 1e-300;
+    let b = OptionBatch {
+        kinds: &[Kind::Call, Kind::Put],
+        spots: &[2.904_355_210_078_951_7e-144, tiny],
+        strikes: &[2.904_355_210_078_967e-144, tiny],
+        expiries: &[7.041_429_247_086_247e-9, 1e-8],
+        rates: &[7.041_529_113_171_147e-9, 0.0],
+        dividend_yields: &[7.041_529_113_171_147e-9, 0.0],
+    };
+    let vols = [7.041_529_113_171_147e-9, 1e-8];
+    let element = |i: usize| {
+        let contract = calor::Contract {
+            kind: b.kinds[i],
+            strike: b.strikes[i],
+            expiry: b.expiries[i],
+        };
+        let market = calor::Market {
+            spot: b.spots[i],
+            rate: b.rates[i],
+            dividend_yield: b.dividend_yields[i],
+        };
+        (contract, market)
+    };
+    let (mut p, mut d, mut s) = ([0.0; 2], [0.0; 2], [Ok(()); 2]);
+    assert_eq!(price_delta_batch(&b, &vols, &mut p, &mut d, &mut s), Ok(2));
+    for i in 0..2 {
+        let (c, m) = element(i);
+        assert_eq!(calor::greeks(&c, &m, vols[i]), Err(calor::Error::Overflow));
+        assert!(
+            p[i].is_finite() && p[i] > 0.0,
+            "element {i}: price {}",
+            p[i]
+        );
+        assert!(d[i].abs() <= 1.0, "element {i}: delta {}", d[i]);
+    }
+    // The scalar path's price is the scalar price. (The lane path's differs
+    // from it by 4·10⁻⁴ relative for the first, within its tolerance: the
+    // price's condition number there is about 2·10¹², far out of the domain.)
+    let (c, m) = element(1);
+    assert_eq!(
+        p[1].to_bits(),
+        calor::price(&c, &m, vols[1]).unwrap().to_bits()
+    );
+}

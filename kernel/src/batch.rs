@@ -129,6 +129,11 @@ pub fn price_batch(
 /// Prices and deltas of every option of the batch, the pair a quoting loop
 /// refreshes on every tick.
 ///
+/// An element's status is that of [`crate::greeks`] on its inputs, except
+/// that an option whose higher Greeks overflow (gamma and those after it,
+/// at expiries far below an hour) still gets its price and delta: only
+/// those two are range-checked.
+///
 /// # Errors
 /// As [`price_batch`], with `deltas` checked as `Field::Output` too.
 #[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
@@ -301,9 +306,9 @@ fn finish(
             continue;
         };
         let result = match delta {
-            Some(d) => crate::greeks(&c, &m, *vol).map(|g| {
-                *d = g.delta;
-                g.price
+            Some(d) => crate::greeks::price_and_delta(&c, &m, *vol).map(|(price, delta)| {
+                *d = delta;
+                price
             }),
             None => crate::price(&c, &m, *vol),
         };

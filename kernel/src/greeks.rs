@@ -70,16 +70,42 @@ use crate::normal::INV_SQRT_2PI;
 /// ```
 #[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn greeks(contract: &Contract, market: &Market, vol: f64) -> Result<Greeks, Error> {
-    let p = Setup::new(contract, market, vol)?;
-    let g = if p.s > 0.0 {
-        diffusive(&p)
-    } else {
-        deterministic(&p)?
-    };
+    let g = unchecked(contract, market, vol)?;
     if g.named().iter().all(|(_, v)| v.is_finite()) {
         Ok(g)
     } else {
         Err(Error::Overflow)
+    }
+}
+
+/// Price and delta, each as [`greeks`] gives it, range-checked on their own:
+/// the option is refused only when one of the two leaves the range of `f64`,
+/// not when a higher Greek does (gamma and those after it, which grow without
+/// bound as spot, vol and expiry shrink together). For the scalar path of
+/// [`crate::price_delta_batch`], which must value what its fast path values.
+///
+/// # Errors
+/// As [`greeks`], with [`Error::Overflow`] for the price alone (|delta| ≤ 1).
+pub(crate) fn price_and_delta(
+    contract: &Contract,
+    market: &Market,
+    vol: f64,
+) -> Result<(f64, f64), Error> {
+    let g = unchecked(contract, market, vol)?;
+    if g.price.is_finite() && g.delta.is_finite() {
+        Ok((g.price, g.delta))
+    } else {
+        Err(Error::Overflow)
+    }
+}
+
+/// All the Greeks, some possibly infinite or NaN past the range of `f64`.
+fn unchecked(contract: &Contract, market: &Market, vol: f64) -> Result<Greeks, Error> {
+    let p = Setup::new(contract, market, vol)?;
+    if p.s > 0.0 {
+        Ok(diffusive(&p))
+    } else {
+        deterministic(&p)
     }
 }
 
