@@ -70,7 +70,7 @@ use crate::normal::INV_SQRT_2PI;
 /// ```
 #[cfg_attr(feature = "no-panic", allow(unsafe_code), no_panic::no_panic)]
 pub fn greeks(contract: &Contract, market: &Market, vol: f64) -> Result<Greeks, Error> {
-    let g = unchecked(contract, market, vol)?;
+    let g = unchecked(&Setup::new(contract, market, vol)?)?;
     if g.named().iter().all(|(_, v)| v.is_finite()) {
         Ok(g)
     } else {
@@ -78,34 +78,37 @@ pub fn greeks(contract: &Contract, market: &Market, vol: f64) -> Result<Greeks, 
     }
 }
 
-/// Price and delta, each as [`greeks`] gives it, range-checked on their own:
-/// the option is refused only when one of the two leaves the range of `f64`,
-/// not when a higher Greek does (gamma and those after it, which grow without
-/// bound as spot, vol and expiry shrink together). For the scalar path of
-/// [`crate::price_delta_batch`], which must value what its fast path values.
+/// Price and delta, range-checked on their own: the option is refused when
+/// [`crate::price`] refuses it or its delta leaves the range of `f64`, not
+/// when a higher Greek does (gamma and those after it, which grow without
+/// bound as spot, vol and expiry shrink together). The price is
+/// [`crate::price`]'s, bit for bit. For the scalar path of
+/// [`crate::price_delta_batch`], which must value what its lane path values.
 ///
 /// # Errors
-/// As [`greeks`], with [`Error::Overflow`] for the price alone (|delta| ≤ 1).
+/// As [`greeks`], with [`Error::Overflow`] for the price and the delta only.
 pub(crate) fn price_and_delta(
     contract: &Contract,
     market: &Market,
     vol: f64,
 ) -> Result<(f64, f64), Error> {
-    let g = unchecked(contract, market, vol)?;
-    if g.price.is_finite() && g.delta.is_finite() {
-        Ok((g.price, g.delta))
+    let p = Setup::new(contract, market, vol)?;
+    // greeks' own refusals (at the strike with no diffusion) come first.
+    let delta = unchecked(&p)?.delta;
+    let price = p.value();
+    if price.is_finite() && delta.is_finite() {
+        Ok((price, delta))
     } else {
         Err(Error::Overflow)
     }
 }
 
 /// All the Greeks, some possibly infinite or NaN past the range of `f64`.
-fn unchecked(contract: &Contract, market: &Market, vol: f64) -> Result<Greeks, Error> {
-    let p = Setup::new(contract, market, vol)?;
+fn unchecked(p: &Setup) -> Result<Greeks, Error> {
     if p.s > 0.0 {
-        Ok(diffusive(&p))
+        Ok(diffusive(p))
     } else {
-        deterministic(&p)
+        deterministic(p)
     }
 }
 
