@@ -132,7 +132,8 @@ pub fn price_batch(
 /// An element's status is that of [`crate::greeks`] on its inputs, except
 /// that an option whose higher Greeks overflow (gamma and those after it,
 /// at expiries far below an hour) still gets its price and delta: only
-/// those two are range-checked.
+/// those two are range-checked. On the scalar path the price, and its
+/// refusal, are those of [`crate::price`], bit for bit.
 ///
 /// # Errors
 /// As [`price_batch`], with `deltas` checked as `Field::Output` too.
