@@ -83,10 +83,12 @@ impl Setup {
         let sqrt_t = libm::sqrt(expiry);
         let dq = libm::exp(-dividend_yield * expiry);
         Ok(Setup {
-            omega: match contract.kind {
-                Kind::Call => 1.0,
-                Kind::Put => -1.0,
-            },
+            // ±1 by its sign bit, not by a match on the kind: from a match the
+            // compiler knows ω's two values and turns ω·v into a branch on the
+            // kind, which a book of mixed calls and puts mispredicts.
+            omega: f64::from_bits(
+                1.0f64.to_bits() | u64::from(matches!(contract.kind, Kind::Put)) << 63,
+            ),
             spot,
             expiry,
             rate,
@@ -121,6 +123,12 @@ impl Setup {
         self.omega * (self.spot_leg - self.strike_leg) > 0.0
     }
 
+    /// The forward intrinsic value max(0, ω·(S·e^(−qT) − K·e^(−rT))): large −
+    /// small in the money (the same difference, negated exactly), 0 otherwise.
+    pub(crate) fn intrinsic(&self) -> f64 {
+        (self.omega * (self.spot_leg - self.strike_leg)).max(0.0)
+    }
+
     /// The option value.
     #[inline]
     pub(crate) fn value(&self) -> f64 {
@@ -128,9 +136,8 @@ impl Setup {
         let abs_x = libm::fabs(self.x);
         let otm = otm_value(abs_x, self.s, small, large);
         // large − small is exact when large ≤ 2·small (Sterbenz) and free of
-        // cancellation otherwise: the forward intrinsic value, added by a
-        // 0/1 weight rather than a branch.
-        otm + f64::from(u8::from(self.in_the_money())) * (large - small)
+        // cancellation otherwise.
+        otm + self.intrinsic()
     }
 }
 

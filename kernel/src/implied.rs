@@ -173,15 +173,15 @@ pub fn solve_implied_vol(
         });
     }
     let (small, large) = p.otm_legs();
-    let itm = p.in_the_money();
-    if premium >= if itm { large } else { small } {
+    // The maximum is the option's own leg, the larger one in the money, and
+    // the forward intrinsic value is max(0, ω·(S·e^(−qT) − K·e^(−rT))), which
+    // is large − small there, exactly. Neither takes a branch: in a book of
+    // mixed strikes and kinds the side is a coin toss.
+    let maximum = if p.in_the_money() { large } else { small };
+    if premium >= maximum {
         return Err(Error::PremiumAboveMaximum);
     }
-    let otm = if itm {
-        premium - (large - small)
-    } else {
-        premium
-    };
+    let otm = premium - p.intrinsic();
     if otm <= 0.0 {
         return Err(Error::PremiumBelowIntrinsic);
     }
