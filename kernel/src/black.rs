@@ -120,11 +120,13 @@ impl Setup {
     /// True when the option is in the money with respect to the forward
     /// (its own leg is the larger one), consistently with [`Setup::otm_legs`].
     pub(crate) fn in_the_money(&self) -> bool {
-        self.omega * (self.spot_leg - self.strike_leg) > 0.0
+        self.intrinsic() > 0.0
     }
 
     /// The forward intrinsic value max(0, ω·(S·e^(−qT) − K·e^(−rT))): large −
     /// small in the money (the same difference, negated exactly), 0 otherwise.
+    /// The difference is exact when large ≤ 2·small (Sterbenz) and free of
+    /// cancellation otherwise.
     pub(crate) fn intrinsic(&self) -> f64 {
         (self.omega * (self.spot_leg - self.strike_leg)).max(0.0)
     }
@@ -135,8 +137,6 @@ impl Setup {
         let (small, large) = self.otm_legs();
         let abs_x = libm::fabs(self.x);
         let otm = otm_value(abs_x, self.s, small, large);
-        // large − small is exact when large ≤ 2·small (Sterbenz) and free of
-        // cancellation otherwise.
         otm + self.intrinsic()
     }
 }
