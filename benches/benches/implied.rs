@@ -1,5 +1,6 @@
 //! Implied volatility: the kernel's bounded solver against a textbook
-//! Newton–bisection solver and the `libm::exp` yardstick, on the same premiums.
+//! Newton–bisection solver and the `libm::exp` yardstick, on the same premiums,
+//! with the kernel's price of the same options as the unit of "prices per solve".
 //!
 //! Premiums are the kernel's prices of the benchmark options at their vols, so
 //! both solvers answer the same questions. Run with
@@ -33,6 +34,16 @@ fn group(c: &mut Criterion, name: &str, batch: &[(Case, f64)]) {
             black_box(batch)
                 .iter()
                 .fold(0.0, |sum, (c, p)| sum + textbook_implied(c, *p))
+        });
+    });
+    // A solver that polishes a guess prices the option at least once to full
+    // precision: the kernel's price of the same options, at the vols the
+    // premiums came from, says how many prices a solve costs in this run.
+    group.bench_function("calor_price", |b| {
+        b.iter(|| {
+            black_box(batch).iter().fold(0.0, |sum, (c, _)| {
+                sum + calor::price(&c.contract, &c.market, c.vol).unwrap_or(f64::NAN)
+            })
         });
     });
     group.bench_function("calor_implied_vol", |b| {
