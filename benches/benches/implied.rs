@@ -11,7 +11,7 @@ use std::hint::black_box;
 use criterion::{criterion_group, criterion_main, Criterion, Throughput};
 
 mod common;
-use common::{cases, exp_yardstick, textbook_implied, Case, Strikes, BATCH};
+use common::{cases, exp_yardstick, kernel_price, textbook_implied, Case, Strikes, BATCH};
 
 fn with_premiums(strikes: Strikes, seed: u64) -> Vec<(Case, f64)> {
     cases(strikes, seed)
@@ -39,13 +39,8 @@ fn group(c: &mut Criterion, name: &str, batch: &[(Case, f64)]) {
     // A solver that polishes a guess prices the option at least once to full
     // precision: the kernel's price of the same options, at the vols the
     // premiums came from, says how many prices a solve costs in this run.
-    group.bench_function("calor_price", |b| {
-        b.iter(|| {
-            black_box(batch).iter().fold(0.0, |sum, (c, _)| {
-                sum + calor::price(&c.contract, &c.market, c.vol).unwrap_or(f64::NAN)
-            })
-        });
-    });
+    let options: Vec<Case> = batch.iter().map(|(c, _)| *c).collect();
+    kernel_price(&mut group, &options);
     group.bench_function("calor_implied_vol", |b| {
         b.iter(|| {
             black_box(batch).iter().fold(0.0, |sum, (c, p)| {

@@ -181,9 +181,14 @@ pub fn closed_form_yardsticks(group: &mut Group<'_>, batch: &[Case]) {
                 .fold(0.0, |sum, case| sum + textbook(case))
         });
     });
+    kernel_price(group, batch);
+}
+
+/// The scalar kernel price of each case at its vol (`calor_price`).
+pub fn kernel_price(group: &mut Group<'_>, cases: &[Case]) {
     group.bench_function("calor_price", |b| {
         b.iter(|| {
-            std::hint::black_box(batch).iter().fold(0.0, |sum, c| {
+            std::hint::black_box(cases).iter().fold(0.0, |sum, c| {
                 sum + calor::price(&c.contract, &c.market, c.vol).unwrap_or(f64::NAN)
             })
         });
