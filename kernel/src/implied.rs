@@ -55,7 +55,7 @@ use crate::black::{erfcx_wing, Setup};
 use crate::contract::{finite, Contract, Market};
 use crate::elementary::exp;
 use crate::error::{Error, Field};
-use crate::normal::{norm_cdf, scaled_erfc, INV_SQRT_2PI};
+use crate::normal::{erfc_of_root, norm_cdf, scaled_erfc, INV_SQRT_2PI};
 
 /// The most Householder iterations [`implied_vol`] ever takes.
 pub const MAX_ITERATIONS: u32 = 3;
@@ -74,14 +74,15 @@ const UPPER_FRACTION: f64 = 0.25;
 const MODEL_STEPS: usize = 1;
 /// On the logarithmic objectives: a correction this small (relative) leaves an
 /// error of order its fourth power, below 10⁻¹⁷. On the reference round trips,
-/// 2·10⁻⁴ is where that error first shows (forward worst 2.57 → 8.1 tolerance
+/// 2·10⁻⁴ is where that error first shows (forward worst 2.36 → 8.1 tolerance
 /// units) and 4·10⁻⁴ fails; this threshold keeps a factor 4 from the first (a
 /// factor 256 in the error).
 const CONVERGED_STEP: f64 = 5e-5;
 /// On b itself: the reverted series' last term, relative to s, below which
 /// the step is final (its error is of the order of the next term). On the
-/// reference round trips 10⁻¹³ is where the error first shows (forward worst
-/// 2.36 → 4.46 tolerance units) and 10⁻¹² fails; this keeps a factor 250.
+/// reference round trips the error first shows between 10⁻¹³ (forward worst
+/// still 2.36 tolerance units) and 3·10⁻¹³ (6.3), and 10⁻¹² fails; this keeps
+/// a factor 250 below the first.
 const CONVERGED_TAIL: f64 = 4e-16;
 /// ... and the step must lie well inside the series' radius of convergence
 /// (|δ| < 1, from the pole of x²/s² at s = 0) for that term to tell.
@@ -263,7 +264,8 @@ impl Target {
         let x = self.x;
         let s_c = libm::sqrt(-2.0 * x);
         // At s_c: h + t = 0 and h − t = −s_c.
-        let b_c = 0.5 * self.b_max - norm_cdf(-s_c) * self.inv_b_max;
+        // Φ(−s_c) = erfc(√|x|)/2, its rational started from |x| beside the root.
+        let b_c = 0.5 * (self.b_max - erfc_of_root(-x) * self.inv_b_max);
         let slope_c = self.b_max * INV_SQRT_2PI;
         if self.beta <= b_c {
             if self.beta < LOWER_FRACTION * b_c {
@@ -319,9 +321,11 @@ impl Target {
         // of order |x|·b_c. b_c is the difference of two terms near ½, so it
         // carries an absolute error of order ε, and for |x| below about
         // 4·10⁻¹¹ that error can exceed the margin: ν then falls below −1 and
-        // so would the tangent s_c·(1 + ν) below zero.
+        // so would the tangent s_c·(1 + ν) below zero. 1/s_c is formed while
+        // b_c is, so that a product, not a division, follows b_c.
+        let inv_s_c = 1.0 / s_c;
         let y = self.tangent_offset(b_c);
-        let (delta, _) = reverted_step(y / s_c, &inflection_coefficients(-0.25 * self.x));
+        let (delta, _) = reverted_step(y * inv_s_c, &inflection_coefficients(-0.25 * self.x));
         if delta > -1.0 {
             s_c * (1.0 + delta)
         } else {
@@ -525,14 +529,15 @@ fn inflection_coefficients(u: f64) -> [f64; 6] {
 
 /// δ from ν and the reversion coefficients, and the size of its last term.
 fn reverted_step(nu: f64, r: &[f64; 6]) -> (f64, f64) {
-    // Estrin's scheme: the step is on the iteration's critical path.
+    // The step is on the iteration's critical path. Grouped as
+    // ν·(1 + R₂ν) + ν³·(R₃ + R₄ν) + ν⁵·(R₅ + R₆ν + R₇ν²), its longest chain is
+    // five operations, against eight for ν + ν²·(polynomial in ν by Estrin).
     let nu2 = nu * nu;
-    let nu4 = nu2 * nu2;
-    let low = r[0] + nu * r[1];
-    let mid = r[2] + nu * r[3];
-    let high = r[4] + nu * r[5];
-    let poly = low + nu2 * (mid + nu2 * high);
-    (nu + nu2 * poly, libm::fabs(r[5] * nu4 * nu2 * nu))
+    let nu3 = nu2 * nu;
+    let nu5 = nu3 * nu2;
+    let low = nu * (1.0 + r[0] * nu) + nu3 * (r[1] + r[2] * nu);
+    let high = (r[3] + r[4] * nu) + nu2 * r[5];
+    (low + nu5 * high, libm::fabs(r[5] * nu5 * nu2))
 }
 
 /// z with Φ(−z) = p for 0 < p ≤ ½, to about 4.5·10⁻⁴ absolute.

@@ -32,6 +32,41 @@ pub(crate) fn norm_cdf(z: f64) -> f64 {
     0.5 * erfc(-z * FRAC_1_SQRT_2)
 }
 
+/// erfc(√u) for u ≥ 0, with √u off the critical path where it can be.
+///
+/// # Formula
+/// Below u = 0.84375², fdlibm's first rational is a function of x² = u, so it
+/// is evaluated from u while √u is formed beside it, and only the final
+/// erfc(x) = 1 − (x + x·P/Q) waits for the root. Elsewhere it is
+/// [`erfc`] of √u.
+///
+/// # Accuracy
+/// As [`erfc`] of the rounded root x: d ln erfc/dx is about −2x in the tail,
+/// so the root's relative rounding of at most ε/2 is a relative error of up to
+/// u·ε in erfc. Within 3 + u ulps of erfc(√u) in the test
+/// `edge_erfc_of_root_against_reference`.
+#[inline]
+pub(crate) fn erfc_of_root(u: f64) -> f64 {
+    let x = libm::sqrt(u);
+    if u < FIRST_RATIONAL_BELOW * FIRST_RATIONAL_BELOW {
+        first_range(x, u)
+    } else {
+        erfc(x)
+    }
+}
+
+/// erfc(x) for |x| < 0.84375 from x and its square.
+#[inline]
+fn first_range(x: f64, square: f64) -> f64 {
+    let y = fdlibm::first(square);
+    // fdlibm's two forms, 1 − (x + x·y) below ¼ and ½ − (x − ½ + x·y)
+    // above, differ by a constant: selected as a mask, not a branch (in a
+    // book of mixed strikes the side of ¼ is a coin toss; the mispredicted
+    // branch cost `calor::price` 5–10 % near the money). Bit for bit the same.
+    let shift = if x < 0.25 { 0.0 } else { 0.5 };
+    (1.0 - shift) - (x - shift + x * y)
+}
+
 /// Below this |x|, fdlibm's first rational (in x²) approximates erfc.
 const FIRST_RATIONAL_BELOW: f64 = 0.84375;
 /// From here on erfc(x) underflows (erfc(28) ≈ 6·10⁻³⁴³).
@@ -63,13 +98,7 @@ const UNDERFLOW_FROM: f64 = 28.0;
 pub(crate) fn erfc(x: f64) -> f64 {
     let a = libm::fabs(x);
     if a < FIRST_RATIONAL_BELOW {
-        let y = fdlibm::first(x * x);
-        // fdlibm's two forms, 1 − (x + x·y) below ¼ and ½ − (x − ½ + x·y)
-        // above, differ by a constant: selected as a mask, not a branch (in a
-        // book of mixed strikes the side of ¼ is a coin toss; the mispredicted
-        // branch cost `calor::price` 5–10 % near the money). Bit for bit the same.
-        let shift = if x < 0.25 { 0.0 } else { 0.5 };
-        (1.0 - shift) - (x - shift + x * y)
+        first_range(x, x * x)
     } else if a < RATIONAL_FROM {
         let p = fdlibm::second(a - 1.0);
         if x > 0.0 {
@@ -400,6 +429,34 @@ mod tests {
         for (x, want) in cases {
             let ulps = (erfc(x) - want).abs() / (want * f64::EPSILON);
             assert!(ulps <= 3.0, "erfc({x}) off by {ulps} ulps");
+        }
+    }
+
+    #[test]
+    fn edge_erfc_of_root_against_reference() {
+        // erfc(√u) at exact f64 u (of the exact root, not the rounded one) on
+        // both sides of the switches at u = 1/16, 0.84375² and 1.25², from
+        // mpmath 1.3.0 at 40 digits, rounded to 21.
+        let cases = [
+            (0.0, 1.0),
+            (1e-20, 0.999_999_999_887_162_083_29),
+            (1e-6, 0.998_871_621_209_030_763_646),
+            (0.062_499_999_999_999_99, 0.723_673_609_831_763_081_726),
+            (0.0625, 0.723_673_609_831_763_067_015),
+            (0.3, 0.438_578_026_080_999_863_522),
+            (0.711_914_062_499_999_9, 0.232_774_338_767_658_402_97),
+            (0.711_914_062_5, 0.232_774_338_767_658_366_541),
+            (1.0, 0.157_299_207_050_285_130_659),
+            (1.562_499_999_999_999_8, 0.077_099_871_743_541_790_870_8),
+            (1.5625, 0.077_099_871_743_541_769_863_5),
+            (4.0, 0.004_677_734_981_047_265_837_93),
+            (30.0, 9.485_737_571_073_848_388_48e-15),
+            (700.0, 2.101_014_516_264_217_495_04e-306),
+        ];
+        for (u, want) in cases {
+            let ulps = (erfc_of_root(u) - want).abs() / (want * f64::EPSILON);
+            // The rounding of √u, a relative ε/2, moves erfc by about u·ε.
+            assert!(ulps <= 3.0 + u, "erfc(√{u}) off by {ulps} ulps");
         }
     }
 
