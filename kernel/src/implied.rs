@@ -321,8 +321,10 @@ impl Target {
         // of order |x|·b_c. b_c is the difference of two terms near ½, so it
         // carries an absolute error of order ε, and for |x| below about
         // 4·10⁻¹¹ that error can exceed the margin: ν then falls below −1 and
-        // so would the tangent s_c·(1 + ν) below zero. 1/s_c is formed while
-        // b_c is, so that a product, not a division, follows b_c.
+        // so would the tangent s_c·(1 + ν) below zero.
+        //
+        // 1/s_c is formed while b_c is, so that a product, not a division,
+        // follows b_c on the guess's critical path.
         let inv_s_c = 1.0 / s_c;
         let y = self.tangent_offset(b_c);
         let (delta, _) = reverted_step(y * inv_s_c, &inflection_coefficients(-0.25 * self.x));
