@@ -49,13 +49,13 @@
 //! |σ̂ − σ| ≤ 16·(1+κ)·ε·V/vega + 4·ε·σ for a premium rounded from the exact price
 //! at σ (tolerance entry `implied_vol`).
 
-use core::f64::consts::FRAC_1_SQRT_2;
+use core::f64::consts::{FRAC_1_SQRT_2, SQRT_2};
 
 use crate::black::{erfcx_wing, Setup};
 use crate::contract::{finite, Contract, Market};
 use crate::elementary::exp;
 use crate::error::{Error, Field};
-use crate::normal::{erfc_of_root, norm_cdf, scaled_erfc, INV_SQRT_2PI};
+use crate::normal::{erfc_with_square, norm_cdf, scaled_erfc, INV_SQRT_2PI};
 
 /// The most Householder iterations [`implied_vol`] ever takes.
 pub const MAX_ITERATIONS: u32 = 3;
@@ -74,14 +74,14 @@ const UPPER_FRACTION: f64 = 0.25;
 const MODEL_STEPS: usize = 1;
 /// On the logarithmic objectives: a correction this small (relative) leaves an
 /// error of order its fourth power, below 10⁻¹⁷. On the reference round trips,
-/// 2·10⁻⁴ is where that error first shows (forward worst 2.36 → 8.1 tolerance
+/// 2·10⁻⁴ is where that error first shows (forward worst 2.07 → 8.1 tolerance
 /// units) and 4·10⁻⁴ fails; this threshold keeps a factor 4 from the first (a
 /// factor 256 in the error).
 const CONVERGED_STEP: f64 = 5e-5;
 /// On b itself: the reverted series' last term, relative to s, below which
 /// the step is final (its error is of the order of the next term). On the
 /// reference round trips the error first shows between 10⁻¹³ (forward worst
-/// still 2.36 tolerance units) and 3·10⁻¹³ (6.3), and 10⁻¹² fails; this keeps
+/// still 2.07 tolerance units) and 3·10⁻¹³ (6.3), and 10⁻¹² fails; this keeps
 /// a factor 250 below the first.
 const CONVERGED_TAIL: f64 = 4e-16;
 /// ... and the step must lie well inside the series' radius of convergence
@@ -262,10 +262,11 @@ impl Target {
     /// The initial guess and the objective that goes with it.
     fn guess(&self) -> (f64, Objective) {
         let x = self.x;
-        let s_c = libm::sqrt(-2.0 * x);
-        // At s_c: h + t = 0 and h − t = −s_c.
-        // Φ(−s_c) = erfc(√|x|)/2, its rational started from |x| beside the root.
-        let b_c = 0.5 * (self.b_max - erfc_of_root(-x) * self.inv_b_max);
+        // At s_c: h + t = 0 and h − t = −s_c, and Φ(−s_c) = erfc(√|x|)/2, whose
+        // rational starts from |x| beside the root.
+        let root = libm::sqrt(-x);
+        let s_c = SQRT_2 * root;
+        let b_c = 0.5 * (self.b_max - erfc_with_square(root, -x) * self.inv_b_max);
         let slope_c = self.b_max * INV_SQRT_2PI;
         if self.beta <= b_c {
             if self.beta < LOWER_FRACTION * b_c {

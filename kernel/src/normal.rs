@@ -32,24 +32,23 @@ pub(crate) fn norm_cdf(z: f64) -> f64 {
     0.5 * erfc(-z * FRAC_1_SQRT_2)
 }
 
-/// erfc(√u) for u ≥ 0, with √u off the critical path where it can be.
+/// erfc(x) for x ≥ 0 given x² as well (`square`, formed beside x), so that
+/// where the first rational applies it need not wait for x.
 ///
 /// # Formula
-/// Below u = 0.84375², fdlibm's first rational is a function of x² = u, so it
-/// is evaluated from u while √u is formed beside it, and only the final
-/// erfc(x) = 1 − (x + x·P/Q) waits for the root. Elsewhere it is
-/// [`erfc`] of √u.
+/// Below x = 0.84375 fdlibm's first rational is a function of x², so it is
+/// evaluated from `square` and only the final erfc(x) = 1 − (x + x·P/Q) waits
+/// for x. Elsewhere it is [`erfc`] of x. A caller with u and x = √u passes u.
 ///
 /// # Accuracy
-/// As [`erfc`] of the rounded root x: d ln erfc/dx is about −2x in the tail,
-/// so the root's relative rounding of at most ε/2 is a relative error of up to
-/// u·ε in erfc. Within 3 + u ulps of erfc(√u) in the test
-/// `edge_erfc_of_root_against_reference`.
+/// As [`erfc`] of x. Against erfc(√u) for x = √u rounded: d ln erfc/dx is
+/// about −2x in the tail, so the root's relative rounding of at most ε/2 is a
+/// relative error of up to u·ε in erfc. Within 3 + u ulps of erfc(√u) in the
+/// test `edge_erfc_with_square_against_reference`.
 #[inline]
-pub(crate) fn erfc_of_root(u: f64) -> f64 {
-    let x = libm::sqrt(u);
-    if u < FIRST_RATIONAL_BELOW * FIRST_RATIONAL_BELOW {
-        first_range(x, u)
+pub(crate) fn erfc_with_square(x: f64, square: f64) -> f64 {
+    if x < FIRST_RATIONAL_BELOW {
+        first_range(x, square)
     } else {
         erfc(x)
     }
@@ -433,7 +432,7 @@ mod tests {
     }
 
     #[test]
-    fn edge_erfc_of_root_against_reference() {
+    fn edge_erfc_with_square_against_reference() {
         // erfc(√u) at exact f64 u (of the exact root, not the rounded one) on
         // both sides of the switches at u = 1/16, 0.84375² and 1.25², from
         // mpmath 1.3.0 at 40 digits, rounded to 21.
@@ -454,7 +453,7 @@ mod tests {
             (700.0, 2.101_014_516_264_217_495_04e-306),
         ];
         for (u, want) in cases {
-            let ulps = (erfc_of_root(u) - want).abs() / (want * f64::EPSILON);
+            let ulps = (erfc_with_square(libm::sqrt(u), u) - want).abs() / (want * f64::EPSILON);
             // The rounding of √u, a relative ε/2, moves erfc by about u·ε.
             assert!(ulps <= 3.0 + u, "erfc(√{u}) off by {ulps} ulps");
         }
