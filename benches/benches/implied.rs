@@ -1,6 +1,7 @@
 //! Implied volatility: the kernel's bounded solver against a textbook
 //! Newton–bisection solver and the `libm::exp` yardstick, on the same premiums,
-//! with the kernel's price of the same options as the unit of "prices per solve".
+//! with the kernel's price of the same options as the unit of "prices per solve",
+//! and the same premiums through `calor::implied_vol_batch`.
 //!
 //! Premiums are the kernel's prices of the benchmark options at their vols, so
 //! both solvers answer the same questions. Run with
@@ -11,7 +12,7 @@ use std::hint::black_box;
 use criterion::{criterion_group, criterion_main, Criterion, Throughput};
 
 mod common;
-use common::{cases, exp_yardstick, kernel_price, textbook_implied, Case, Strikes, BATCH};
+use common::{cases, columns, exp_yardstick, kernel_price, textbook_implied, Case, Strikes, BATCH};
 
 fn with_premiums(strikes: Strikes, seed: u64) -> Vec<(Case, f64)> {
     cases(strikes, seed)
@@ -46,6 +47,23 @@ fn group(c: &mut Criterion, name: &str, batch: &[(Case, f64)]) {
             black_box(batch).iter().fold(0.0, |sum, (c, p)| {
                 sum + calor::implied_vol(&c.contract, &c.market, *p).unwrap_or(f64::NAN)
             })
+        });
+    });
+    // The same premiums through the batch entry point, which solves blocks of
+    // them stage by stage; columns and outputs are set up outside the loop.
+    let cols = columns(&options);
+    let inputs = cols.options();
+    let premiums: Vec<f64> = batch.iter().map(|(_, p)| *p).collect();
+    let (mut vols, mut status) = (vec![0.0; batch.len()], vec![Ok(()); batch.len()]);
+    group.bench_function("calor_implied_vol_batch", |b| {
+        b.iter(|| {
+            let solved = calor::implied_vol_batch(
+                black_box(&inputs),
+                black_box(&premiums),
+                &mut vols,
+                &mut status,
+            );
+            black_box((solved.ok(), &vols));
         });
     });
     group.finish();

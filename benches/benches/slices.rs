@@ -7,45 +7,15 @@
 
 use std::hint::black_box;
 
-use calor::{price_delta_batch, OptionBatch};
+use calor::price_delta_batch;
 use criterion::{criterion_group, criterion_main, Criterion};
 
 mod common;
-use common::{cases, closed_form_yardsticks, Case, Strikes, BATCH};
-
-/// Structure-of-arrays copy of the cases.
-struct Columns {
-    kinds: Vec<calor::Kind>,
-    spots: Vec<f64>,
-    strikes: Vec<f64>,
-    expiries: Vec<f64>,
-    rates: Vec<f64>,
-    dividend_yields: Vec<f64>,
-    vols: Vec<f64>,
-}
-
-fn columns(batch: &[Case]) -> Columns {
-    Columns {
-        kinds: batch.iter().map(|c| c.contract.kind).collect(),
-        spots: batch.iter().map(|c| c.market.spot).collect(),
-        strikes: batch.iter().map(|c| c.contract.strike).collect(),
-        expiries: batch.iter().map(|c| c.contract.expiry).collect(),
-        rates: batch.iter().map(|c| c.market.rate).collect(),
-        dividend_yields: batch.iter().map(|c| c.market.dividend_yield).collect(),
-        vols: batch.iter().map(|c| c.vol).collect(),
-    }
-}
+use common::{cases, closed_form_yardsticks, columns, Case, Strikes, BATCH};
 
 fn group(c: &mut Criterion, name: &str, batch: &[Case]) {
     let cols = columns(batch);
-    let options = OptionBatch {
-        kinds: &cols.kinds,
-        spots: &cols.spots,
-        strikes: &cols.strikes,
-        expiries: &cols.expiries,
-        rates: &cols.rates,
-        dividend_yields: &cols.dividend_yields,
-    };
+    let options = cols.options();
     let mut group = c.benchmark_group(name);
     closed_form_yardsticks(&mut group, batch);
     let (mut prices, mut deltas, mut status) =

@@ -49,6 +49,21 @@ impl Columns {
     }
 }
 
+/// The i-th option of a batch, for the scalar calls.
+fn element(b: &OptionBatch<'_>, i: usize) -> (calor::Contract, calor::Market) {
+    let contract = calor::Contract {
+        kind: b.kinds[i],
+        strike: b.strikes[i],
+        expiry: b.expiries[i],
+    };
+    let market = calor::Market {
+        spot: b.spots[i],
+        rate: b.rates[i],
+        dividend_yield: b.dividend_yields[i],
+    };
+    (contract, market)
+}
+
 fn greeks_cases() -> Vec<GreeksCase> {
     read_table(&default_dir().join("black/greeks.csv")).unwrap()
 }
@@ -191,6 +206,80 @@ fn prop_batch_bits_independent_of_size_and_offset() {
 }
 
 #[test]
+fn prop_batch_implied_blocks_match_scalar_with_refusals() {
+    // The implied-vol batch solves blocks of 16 stage by stage. Spoil some
+    // elements in every block, differently, and check each element's status
+    // and bits against the scalar call, in windows that cut the blocks anywhere.
+    let table: Vec<ImpliedCase> = read_table(&default_dir().join("black/implied.csv")).unwrap();
+    let mut cols = Columns::new(table.iter().map(ImpliedCase::inputs));
+    let mut premiums: Vec<f64> = table.iter().map(|c| c.premium).collect();
+    for (i, p) in premiums.iter_mut().enumerate() {
+        match i % 23 {
+            3 => *p = f64::NAN,
+            7 => *p = -1.0,
+            11 => *p = f64::MAX,
+            13 => *p = 0.0,
+            _ => {}
+        }
+    }
+    for i in (19..cols.spots.len()).step_by(29) {
+        cols.spots[i] = f64::INFINITY;
+    }
+    let n = premiums.len();
+    let solve = |range: std::ops::Range<usize>| {
+        let k = range.len();
+        let (mut vols, mut status) = (vec![0.0; k], vec![Ok(()); k]);
+        let ok = implied_vol_batch(
+            &cols.batch(range.clone()),
+            &premiums[range],
+            &mut vols,
+            &mut status,
+        )
+        .unwrap();
+        assert_eq!(ok, status.iter().filter(|s| s.is_ok()).count());
+        (vols, status)
+    };
+    let (vols, status) = solve(0..n);
+    let mut refused = 0;
+    for i in 0..n {
+        let (c, m) = element(&cols.batch(0..n), i);
+        match calor::implied_vol(&c, &m, premiums[i]) {
+            Ok(v) => assert_eq!(
+                (status[i], vols[i].to_bits()),
+                (Ok(()), v.to_bits()),
+                "element {i}"
+            ),
+            Err(e) => {
+                refused += 1;
+                assert_eq!(status[i], Err(e), "element {i}");
+                assert!(vols[i].is_nan(), "element {i}");
+            }
+        }
+    }
+    assert!(refused > n / 8, "only {refused} of {n} refused");
+    for (start, len) in [
+        (0, 1),
+        (1, 15),
+        (5, 16),
+        (15, 17),
+        (16, 33),
+        (100, 257),
+        (n - 13, 13),
+    ] {
+        let (v, s) = solve(start..start + len);
+        for j in 0..len {
+            assert_eq!(s[j], status[start + j], "status of case {}", start + j);
+            assert_eq!(
+                v[j].to_bits(),
+                vols[start + j].to_bits(),
+                "vol of case {}",
+                start + j
+            );
+        }
+    }
+}
+
+#[test]
 fn edge_batch_bad_elements_and_lengths() {
     let b = OptionBatch {
         kinds: &[Kind::Call, Kind::Put, Kind::Call],
@@ -248,19 +337,7 @@ fn edge_batch_price_delta_values_options_whose_higher_greeks_overflow() {
         dividend_yields: &[7.041_529_113_171_147e-9, 0.0],
     };
     let vols = [7.041_529_113_171_147e-9, 1e-8];
-    let element = |i: usize| {
-        let contract = calor::Contract {
-            kind: b.kinds[i],
-            strike: b.strikes[i],
-            expiry: b.expiries[i],
-        };
-        let market = calor::Market {
-            spot: b.spots[i],
-            rate: b.rates[i],
-            dividend_yield: b.dividend_yields[i],
-        };
-        (contract, market)
-    };
+    let element = |i: usize| element(&b, i);
     let (mut p, mut d, mut s) = ([0.0; 2], [0.0; 2], [Ok(()); 2]);
     assert_eq!(price_delta_batch(&b, &vols, &mut p, &mut d, &mut s), Ok(2));
     for i in 0..2 {

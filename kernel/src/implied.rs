@@ -51,6 +51,10 @@
 
 use core::f64::consts::{FRAC_1_SQRT_2, SQRT_2};
 
+mod blocks;
+
+pub(crate) use blocks::solve_in_blocks;
+
 use crate::black::{erfcx_wing, Setup};
 use crate::contract::{finite, Contract, Market};
 use crate::elementary::exp;
@@ -161,6 +165,29 @@ pub fn solve_implied_vol(
     market: &Market,
     premium: f64,
 ) -> Result<ImpliedVol, Error> {
+    let problem = prepare(contract, market, premium)?;
+    let (s, iterations, last_step) = problem.target.solve();
+    Ok(ImpliedVol {
+        vol: problem.vol(s)?,
+        iterations,
+        last_step,
+    })
+}
+
+/// A validated premium: its normalised problem, and √T to turn s = σ√T back
+/// into σ.
+#[derive(Clone, Copy)]
+struct Prepared {
+    target: Target,
+    sqrt_t: f64,
+}
+
+/// Validates the inputs and the premium against the no-arbitrage bounds and
+/// sets up the normalised problem ([`solve_implied_vol`]'s errors).
+// Inlined so that the block path writes the result straight into its slot:
+// through a temporary, its set-up and guess stages measured 6 % slower.
+#[inline]
+fn prepare(contract: &Contract, market: &Market, premium: f64) -> Result<Prepared, Error> {
     let p = Setup::new(contract, market, 0.0)?;
     if p.expiry <= 0.0 {
         return Err(Error::NotPositive {
@@ -186,18 +213,25 @@ pub fn solve_implied_vol(
     if otm <= 0.0 {
         return Err(Error::PremiumBelowIntrinsic);
     }
-    let target = Target::new(-libm::fabs(p.x), otm, small, large);
-    let (s, iterations, last_step) = target.solve();
-    // Inputs whose discount factors or moneyness leave the range of f64 (say
-    // q·T beyond 700) have no meaningful normalised problem: refuse, never NaN.
-    if !(s / p.sqrt_t).is_finite() {
-        return Err(Error::Overflow);
-    }
-    Ok(ImpliedVol {
-        vol: s / p.sqrt_t,
-        iterations,
-        last_step,
+    Ok(Prepared {
+        target: Target::new(-libm::fabs(p.x), otm, small, large),
+        sqrt_t: p.sqrt_t,
     })
+}
+
+impl Prepared {
+    /// σ = s/√T for the solved s.
+    fn vol(&self, s: f64) -> Result<f64, Error> {
+        // Inputs whose discount factors or moneyness leave the range of f64
+        // (say q·T beyond 700) have no meaningful normalised problem: refuse,
+        // never NaN.
+        let vol = s / self.sqrt_t;
+        if vol.is_finite() {
+            Ok(vol)
+        } else {
+            Err(Error::Overflow)
+        }
+    }
 }
 
 /// Which function of b the iteration drives to zero.
@@ -212,6 +246,7 @@ enum Objective {
 }
 
 /// The normalised problem b(x, s) = β.
+#[derive(Clone, Copy)]
 struct Target {
     x: f64,
     b_max: f64,
@@ -260,6 +295,7 @@ impl Target {
     }
 
     /// The initial guess and the objective that goes with it.
+    #[inline]
     fn guess(&self) -> (f64, Objective) {
         let x = self.x;
         // At s_c: h + t = 0 and h − t = −s_c, and Φ(−s_c) = erfc(√|x|)/2, whose
@@ -429,6 +465,32 @@ impl Target {
         reverted_step(nu, &reversion_coefficients(0.5 * h * h, t * t))
     }
 
+    /// One iteration from s: the next iterate, its change relative to itself,
+    /// and whether it is final.
+    #[inline]
+    fn iterate(&self, s: f64, objective: Objective) -> (f64, f64, bool) {
+        if objective == Objective::Price {
+            let (delta, tail) = self.price_step(s);
+            let next = if delta.is_finite() && delta > -1.0 {
+                s * (1.0 + delta)
+            } else {
+                0.5 * s
+            };
+            let converged = libm::fabs(delta) < CONVERGED_RADIUS && tail < CONVERGED_TAIL;
+            (next, libm::fabs(next - s) / next, converged)
+        } else {
+            let (nu, h2, h3) = self.householder_terms(s, objective);
+            let step = nu * (1.0 + 0.5 * h2 * nu) / (1.0 + nu * (h2 + h3 * nu / 6.0));
+            let next = if step.is_finite() && s + step > 0.0 {
+                s + step
+            } else {
+                0.5 * s
+            };
+            let last_step = libm::fabs(next - s) / next;
+            (next, last_step, last_step <= CONVERGED_STEP)
+        }
+    }
+
     /// The iterate, the iterations taken and the last relative correction.
     fn solve(&self) -> (f64, u32, f64) {
         let (mut s, objective) = self.guess();
@@ -437,28 +499,7 @@ impl Target {
         let mut converged = false;
         while iterations < MAX_ITERATIONS && !converged {
             iterations += 1;
-            let next = if objective == Objective::Price {
-                let (delta, tail) = self.price_step(s);
-                converged = libm::fabs(delta) < CONVERGED_RADIUS && tail < CONVERGED_TAIL;
-                if delta.is_finite() && delta > -1.0 {
-                    s * (1.0 + delta)
-                } else {
-                    0.5 * s
-                }
-            } else {
-                let (nu, h2, h3) = self.householder_terms(s, objective);
-                let step = nu * (1.0 + 0.5 * h2 * nu) / (1.0 + nu * (h2 + h3 * nu / 6.0));
-                if step.is_finite() && s + step > 0.0 {
-                    s + step
-                } else {
-                    0.5 * s
-                }
-            };
-            last_step = libm::fabs(next - s) / next;
-            if objective != Objective::Price {
-                converged = last_step <= CONVERGED_STEP;
-            }
-            s = next;
+            (s, last_step, converged) = self.iterate(s, objective);
         }
         (s, iterations, last_step)
     }

@@ -82,6 +82,43 @@ pub fn cases(strikes: Strikes, seed: u64) -> Vec<Case> {
         .collect()
 }
 
+/// Structure-of-arrays copy of the cases, for the batch entry points.
+pub struct Columns {
+    pub kinds: Vec<Kind>,
+    pub spots: Vec<f64>,
+    pub strikes: Vec<f64>,
+    pub expiries: Vec<f64>,
+    pub rates: Vec<f64>,
+    pub dividend_yields: Vec<f64>,
+    pub vols: Vec<f64>,
+}
+
+pub fn columns(batch: &[Case]) -> Columns {
+    Columns {
+        kinds: batch.iter().map(|c| c.contract.kind).collect(),
+        spots: batch.iter().map(|c| c.market.spot).collect(),
+        strikes: batch.iter().map(|c| c.contract.strike).collect(),
+        expiries: batch.iter().map(|c| c.contract.expiry).collect(),
+        rates: batch.iter().map(|c| c.market.rate).collect(),
+        dividend_yields: batch.iter().map(|c| c.market.dividend_yield).collect(),
+        vols: batch.iter().map(|c| c.vol).collect(),
+    }
+}
+
+impl Columns {
+    /// The options, without their vols.
+    pub fn options(&self) -> calor::OptionBatch<'_> {
+        calor::OptionBatch {
+            kinds: &self.kinds,
+            spots: &self.spots,
+            strikes: &self.strikes,
+            expiries: &self.expiries,
+            rates: &self.rates,
+            dividend_yields: &self.dividend_yields,
+        }
+    }
+}
+
 /// Standard normal distribution function, the textbook way.
 pub fn norm_cdf(z: f64) -> f64 {
     0.5 * libm::erfc(-z * FRAC_1_SQRT_2)
