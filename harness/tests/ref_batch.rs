@@ -240,9 +240,10 @@ fn prop_batch_implied_blocks_match_scalar_with_refusals() {
         (vols, status)
     };
     let (vols, status) = solve(0..n);
+    let all = cols.batch(0..n);
     let mut refused = 0;
     for i in 0..n {
-        let (c, m) = element(&cols.batch(0..n), i);
+        let (c, m) = element(&all, i);
         match calor::implied_vol(&c, &m, premiums[i]) {
             Ok(v) => assert_eq!(
                 (status[i], vols[i].to_bits()),

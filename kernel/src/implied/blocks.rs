@@ -43,8 +43,7 @@ where
             len += 1;
         }
         let block = block.get(..len).unwrap_or(&[]);
-        let iterates = solve_block(block);
-        for (problem, (s, _)) in block.iter().zip(iterates) {
+        for (problem, s) in block.iter().zip(solve_block(block)) {
             emit(match problem {
                 Ok(p) => p.vol(s),
                 Err(e) => Err(*e),
@@ -58,7 +57,7 @@ where
 
 /// The solved s of each prepared element (unused for the refused ones): all
 /// the guesses, then each iteration over the elements still unconverged.
-fn solve_block(block: &[Result<Prepared, Error>]) -> [(f64, Objective); BLOCK] {
+fn solve_block(block: &[Result<Prepared, Error>]) -> [f64; BLOCK] {
     let mut iterates = [(0.0, Objective::Price); BLOCK];
     let mut live = [0usize; BLOCK];
     let mut n_live = 0;
@@ -88,5 +87,5 @@ fn solve_block(block: &[Result<Prepared, Error>]) -> [(f64, Objective); BLOCK] {
         }
         n_live = kept;
     }
-    iterates
+    iterates.map(|(s, _)| s)
 }
