@@ -83,8 +83,10 @@ def main():
         count = 12 if target == "american_price" else 30
         write(target, binary_seeds(rng, count_words, count))
     write("batch_decode", [s.encode("utf-8") for s in CSV_SEEDS] + CSV_BYTES)
-    # kernel_batch: up to eight price-layout options back to back.
-    write("kernel_batch", [b"".join(binary_seeds(rng, 6, 1 + i % 8)) for i in range(20)])
+    # kernel_batch: up to eight price-layout options back to back, then
+    # batches on the edges of the implied-vol solver's blocks of 16.
+    sizes = [1 + i % 8 for i in range(20)] + [15, 16, 17, 32, 33, 40]
+    write("kernel_batch", [b"".join(binary_seeds(rng, 6, n)) for n in sizes])
 
 
 if __name__ == "__main__":

@@ -551,10 +551,14 @@ pub fn check_heat_step(data: &[u8]) {
 
 /// Bytes per option of [`check_kernel_batch`]: a flag byte and six words.
 const BATCH_CASE_BYTES: usize = 1 + 8 * 6;
+/// Options per [`check_kernel_batch`] input at most: two whole blocks of the
+/// implied-vol batch's staged solver (16 premiums each) and part of a third,
+/// so that its block edges are fuzzed too.
+const BATCH_MAX_OPTIONS: usize = 40;
 
 /// `kernel_batch`: the kernel's batch entry points (`price_batch`,
-/// `price_delta_batch`, `greeks_batch`, `implied_vol_batch`) on up to eight
-/// options, each laid out as one [`check_price`] input of 49 bytes. Nothing is
+/// `price_delta_batch`, `greeks_batch`, `implied_vol_batch`) on up to
+/// [`BATCH_MAX_OPTIONS`] options, each laid out as one [`check_price`] input of 49 bytes. Nothing is
 /// lost: every element's status agrees with the scalar call on the same
 /// inputs, the count returned is that of the `Ok` statuses, an `Ok` element is
 /// finite, and its price is the scalar price within [`BOUND_ULPS`]. The
@@ -569,7 +573,7 @@ pub fn check_kernel_batch(data: &[u8]) {
     let input = Input::new(data);
     let cases: Vec<Case> = data
         .chunks(BATCH_CASE_BYTES)
-        .take(8)
+        .take(BATCH_MAX_OPTIONS)
         .map(|chunk| Case::from_input(&Input::new(chunk)))
         .collect();
     let n = cases.len();
