@@ -229,6 +229,32 @@ def implied_row(kind, inputs):
     return [repr(premium)] + [fmt(v) for v in values] if representable(values) else None
 
 
+# near_expiry.csv: a fixed grid near the money, where t = vol*sqrt(T)/2 is small
+# and the two Phi terms of the central formula cancel to about 1/t.  The strike
+# puts x = ln(F/K) at z*vol*sqrt(T) for each z, on both sides of the forward.
+NEAR_EXPIRY_EXPIRIES = (HOUR, 4 * HOUR, DAY, 7 * DAY, 0.25)
+NEAR_EXPIRY_VOLS = (0.005, 0.05, 0.2, 0.5)
+NEAR_EXPIRY_Z = (0.0, 0.25, -0.25, 1.0, -1.0, 1.9, -1.9)
+NEAR_EXPIRY_CARRIES = ((0.0, 0.0), (0.05, 0.02))
+
+
+def near_expiry_rows():
+    rows = []
+    for T in NEAR_EXPIRY_EXPIRIES:
+        for v in NEAR_EXPIRY_VOLS:
+            for z in NEAR_EXPIRY_Z:
+                for r, q in NEAR_EXPIRY_CARRIES:
+                    S = 100.0
+                    strike = float(mpf(S) * mp.exp((mpf(r) - mpf(q)) * mpf(T)
+                                                   - mpf(z) * mpf(v) * mp.sqrt(mpf(T))))
+                    for kind in ('call', 'put'):
+                        inputs = (S, strike, T, r, q, v)
+                        row = implied_row(kind, inputs)
+                        if row:
+                            rows.append(['near_expiry', kind] + [repr(a) for a in inputs] + row)
+    return [[f'n{i:05d}'] + r for i, r in enumerate(rows, 1)]
+
+
 def sample_stratum(job):
     """Rows of one stratum; each stratum has its own seeded generator, so strata can
     be computed in any order or in parallel and the file is still the same."""
@@ -356,13 +382,15 @@ def generate(out):
                   'calor-greeks-1', greeks_row)
     write_sampled(os.path.join(out, 'black', 'implied.csv'), IMPLIED_HEADER, 'i',
                   'calor-implied-1', implied_row)
+    write_csv(os.path.join(out, 'black', 'near_expiry.csv'), IMPLIED_HEADER, near_expiry_rows())
     write_csv(os.path.join(out, 'textbook', 'european.csv'), TEXTBOOK_HEADER,
               [textbook_row(row) for row in TEXTBOOK])
     print(f'european.csv: {len(TEXTBOOK)} rows; total {time.time() - start:.0f} s',
           file=sys.stderr)
 
 
-TABLES = ('black/greeks.csv', 'black/implied.csv', 'textbook/european.csv')
+TABLES = ('black/greeks.csv', 'black/implied.csv', 'black/near_expiry.csv',
+          'textbook/european.csv')
 
 
 def main():

@@ -80,7 +80,15 @@ fn cli_certify_passes_on_shipped_cases() {
         .iter()
         .filter_map(|s| s["suite"].as_str())
         .collect();
-    for suite in ["black", "implied", "textbook", "heat", "ladder", "sweep"] {
+    for suite in [
+        "black",
+        "implied",
+        "near_expiry",
+        "textbook",
+        "heat",
+        "ladder",
+        "sweep",
+    ] {
         assert!(suites.contains(&suite), "{suites:?}");
     }
     let expected = json["expected_failures"].as_array().expect("a list");

@@ -360,3 +360,35 @@ fn edge_batch_price_delta_values_options_whose_higher_greeks_overflow() {
         calor::price(&c, &m, vols[1]).unwrap().to_bits()
     );
 }
+
+#[test]
+fn ref_batch_near_expiry_takes_the_scalar_path() {
+    // The lane formula is the two Φ terms, which cancel to about 1/t near
+    // expiry; below t = σ√T/2 = 0.05 (where the kernel sums the series in t)
+    // the elements take the scalar path: price as `price`, delta as `greeks`,
+    // bit for bit. And `greeks`' price is `price`'s on every path.
+    let cases: Vec<ImpliedCase> = read_table(&default_dir().join("black/near_expiry.csv")).unwrap();
+    let columns = Columns::new(cases.iter().map(ImpliedCase::inputs));
+    let vols: Vec<f64> = cases.iter().map(|c| c.vol).collect();
+    let n = cases.len();
+    let (mut prices, mut deltas, mut status) = (vec![0.0; n], vec![0.0; n], vec![Ok(()); n]);
+    let options = columns.batch(0..n);
+    let valued = price_delta_batch(&options, &vols, &mut prices, &mut deltas, &mut status);
+    assert_eq!(valued, Ok(n));
+    let mut scalar_path = 0;
+    for (i, case) in cases.iter().enumerate() {
+        let (contract, market) = element(&options, i);
+        let price = calor::price(&contract, &market, case.vol).unwrap();
+        let greeks = calor::greeks(&contract, &market, case.vol).unwrap();
+        assert_eq!(greeks.price.to_bits(), price.to_bits(), "{}", case.id);
+        if 0.5 * case.vol * case.expiry.sqrt() < 0.05 {
+            scalar_path += 1;
+            assert_eq!(prices[i].to_bits(), price.to_bits(), "{}", case.id);
+            assert_eq!(deltas[i].to_bits(), greeks.delta.to_bits(), "{}", case.id);
+        }
+    }
+    assert!(
+        scalar_path > n / 2,
+        "{scalar_path} of {n} rows below t = 0.05"
+    );
+}

@@ -3,9 +3,11 @@
 //!
 //! Prices and deltas take a vectorisable fast path ([`crate::vector`]) for
 //! options in the central region of the normalised price: validated inputs of
-//! moderate size with h + t ≥ −2 and h − t ≥ −12 (h = −|ln(F/K)|/(σ√T),
-//! t = σ√T/2). Every other element (the wings, the limits, bad input) takes the
-//! scalar [`crate::price`] / [`crate::greeks`] path. Which path an element takes
+//! moderate size with h + t ≥ −2, h − t ≥ −12 and t ≥ 0.05
+//! (h = −|ln(F/K)|/(σ√T), t = σ√T/2; below t = 0.05 the scalar path's series
+//! in t avoids the two Φ terms' cancellation). Every other element (the wings,
+//! near expiry, the limits, bad input) takes the scalar [`crate::price`] /
+//! [`crate::greeks`] path. Which path an element takes
 //! depends on its own inputs only, and the fast path is exact IEEE arithmetic
 //! without data-dependent branches, so results are bit-for-bit the same
 //! whatever the batch size, the element's position or the slices' alignment.
@@ -386,7 +388,10 @@ fn lane(
     };
     let h = -(if x < 0.0 { -x } else { x }) / s;
     let t = 0.5 * s;
-    let central = h + t >= -2.0 && h - t >= -12.0;
+    // Near expiry the scalar path sums b from its series in t, where these two
+    // Φ terms would cancel to about 1/t: those elements take it.
+    let central =
+        h + t >= -2.0 && h - t >= -12.0 && !black::small_t::applies(h, t, black::ERFCX_BELOW);
     let near = vector::norm_cdf(h + t);
     let far = vector::norm_cdf(h - t);
     let otm = (small * near - large * far).max(0.0);

@@ -93,9 +93,16 @@ pub(crate) fn price_and_delta(
     vol: f64,
 ) -> Result<(f64, f64), Error> {
     let p = Setup::new(contract, market, vol)?;
-    // greeks' own refusals (at the strike with no diffusion) come first.
-    let delta = unchecked(&p)?.delta;
-    let price = p.value();
+    // greeks' own refusals (at the strike with no diffusion) come first. With
+    // diffusion, price and delta are greeks' (the price is `price`'s, bit for
+    // bit), without the other thirteen Greeks.
+    let (price, delta) = if p.s > 0.0 {
+        let terms = Terms::new(&p);
+        (terms.price, p.omega * terms.spot_term / p.spot)
+    } else {
+        let g = deterministic(&p)?;
+        (g.price, g.delta)
+    };
     if price.is_finite() && delta.is_finite() {
         Ok((price, delta))
     } else {
@@ -112,32 +119,71 @@ fn unchecked(p: &Setup) -> Result<Greeks, Error> {
     }
 }
 
+/// What the price and every Greek with diffusion start from.
+struct Terms {
+    /// h = x/s and t = s/2.
+    h: f64,
+    half: f64,
+    /// The out-of-the-money legs, smaller first.
+    small: f64,
+    large: f64,
+    price: f64,
+    /// S·e^(−qT)·Φ(ωd1) and K·e^(−rT)·Φ(ωd2).
+    spot_term: f64,
+    strike_term: f64,
+}
+
+impl Terms {
+    /// For s > 0.
+    fn new(p: &Setup) -> Self {
+        // As the value's terms form it (black::otm_value), so that the density
+        // of the Greeks and those terms share the rounding of h.
+        let h = p.x * (1.0 / p.s);
+        let half = 0.5 * p.s;
+        // S·e^(−qT)·Φ(ωd1) and K·e^(−rT)·Φ(ωd2) from the two terms of the
+        // out-of-the-money value (one pair of erfc evaluations serves the price
+        // and all Greeks): for the out-of-the-money option they are those
+        // terms, in scaled form deep in the wing; in the money they are the
+        // legs less the other option's terms (parity), with no cancellation of
+        // consequence.
+        let (small, large) = p.otm_legs();
+        let (otm, near, far) = otm_parts(libm::fabs(p.x), p.s, small, large);
+        let price = if p.in_the_money() {
+            otm + (large - small).max(0.0)
+        } else {
+            otm
+        };
+        let (spot_term, strike_term) = match (p.in_the_money(), p.omega > 0.0) {
+            (false, true) => (near, far),
+            (false, false) => (far, near),
+            (true, true) => (p.spot_leg - far, p.strike_leg - near),
+            (true, false) => (p.spot_leg - near, p.strike_leg - far),
+        };
+        Terms {
+            h,
+            half,
+            small,
+            large,
+            price,
+            spot_term,
+            strike_term,
+        }
+    }
+}
+
 fn diffusive(p: &Setup) -> Greeks {
     let (w, vol, t, sqrt_t, s) = (p.omega, p.vol, p.expiry, p.sqrt_t, p.s);
     let (spot, q, r) = (p.spot, p.dividend_yield, p.rate);
-    // As the value's terms form it (black::otm_value), so that the density
-    // below and those terms share the rounding of h.
-    let h = p.x * (1.0 / s);
-    let half = 0.5 * s;
+    let Terms {
+        h,
+        half,
+        small,
+        large,
+        price,
+        spot_term,
+        strike_term,
+    } = Terms::new(p);
     let (d1, d2) = (h + half, h - half);
-    // S·e^(−qT)·Φ(ωd1) and K·e^(−rT)·Φ(ωd2) from the two terms of the
-    // out-of-the-money value (one pair of erfc evaluations serves the price and
-    // all Greeks): for the out-of-the-money option they are those terms, in
-    // scaled form deep in the wing; in the money they are the legs less the
-    // other option's terms (parity), with no cancellation of consequence.
-    let (small, large) = p.otm_legs();
-    let (otm, near, far) = otm_parts(libm::fabs(p.x), s, small, large);
-    let price = if p.in_the_money() {
-        otm + (large - small).max(0.0)
-    } else {
-        otm
-    };
-    let (spot_term, strike_term) = match (p.in_the_money(), w > 0.0) {
-        (false, true) => (near, far),
-        (false, false) => (far, near),
-        (true, true) => (p.spot_leg - far, p.strike_leg - near),
-        (true, false) => (p.spot_leg - near, p.strike_leg - far),
-    };
     let a = scaled(
         INV_SQRT_2PI * libm::sqrt(small) * libm::sqrt(large),
         0.5 * (h * h + half * half),

@@ -20,7 +20,7 @@ use crate::certify::identity::Identity;
 use crate::certify::region::regions_of;
 use crate::certify::report::{self, Certificate, ExpectedOutcome, Generator, SuiteInfo};
 use crate::certify::tally::Tally;
-use crate::certify::{american, black, heat, implied, ladder, show, sweep, textbook};
+use crate::certify::{american, black, heat, implied, ladder, near_expiry, show, sweep, textbook};
 use crate::tolerance;
 
 /// Inputs of `calor certify`.
@@ -57,6 +57,8 @@ fn positive_factor(text: &str) -> Result<f64, String> {
 pub const GREEKS_FILE: &str = "black/greeks.csv";
 /// Implied-vol round trips.
 pub const IMPLIED_FILE: &str = "black/implied.csv";
+/// The near-expiry grid (optional: the suite is skipped when absent).
+pub const NEAR_EXPIRY_FILE: &str = "black/near_expiry.csv";
 /// Worked examples.
 pub const TEXTBOOK_FILE: &str = "textbook/european.csv";
 /// American references (optional: the suite is skipped when absent).
@@ -124,6 +126,32 @@ fn load<T: serde::de::DeserializeOwned>(
     Ok(rows)
 }
 
+/// The near-expiry suite's checked rows into the tally.
+fn check_near_expiry(cases: &[ImpliedCase], tally: &mut Tally) {
+    for case in cases.iter().filter(|c| near_expiry::claimed(c)) {
+        let inputs = case.inputs();
+        let regions = regions_of(&inputs);
+        let trip = near_expiry::measure(case);
+        let detail = || format!("{inputs:?} premium {}", show(case.premium));
+        for (quantity, units) in [
+            ("price", trip.price),
+            ("implied_vol", trip.forward),
+            ("repricing", trip.backward),
+        ] {
+            let limit = tolerance::NEAR_EXPIRY.limit;
+            tally.record(
+                "near_expiry",
+                quantity,
+                &case.id,
+                &regions,
+                units,
+                limit,
+                detail,
+            );
+        }
+    }
+}
+
 fn progress(steps: u64) -> ProgressBar {
     if !std::io::stderr().is_terminal() {
         return ProgressBar::hidden();
@@ -142,8 +170,13 @@ fn certify(args: &CertifyArgs) -> Result<Certificate, Unusable> {
     let mut files = Vec::new();
     let greeks: Vec<GreeksCase> = load(&dir, GREEKS_FILE, &mut files)?;
     let implied_cases: Vec<ImpliedCase> = load(&dir, IMPLIED_FILE, &mut files)?;
-    let textbook_cases: Vec<TextbookCase> = load(&dir, TEXTBOOK_FILE, &mut files)?;
     let optional = |name: &str| dir.join(name).is_file();
+    let near_expiry_cases: Option<Vec<ImpliedCase>> = if optional(NEAR_EXPIRY_FILE) {
+        Some(load(&dir, NEAR_EXPIRY_FILE, &mut files)?)
+    } else {
+        None
+    };
+    let textbook_cases: Vec<TextbookCase> = load(&dir, TEXTBOOK_FILE, &mut files)?;
     let american_cases: Option<Vec<AmericanCase>> = if optional(AMERICAN_FILE) {
         Some(load(&dir, AMERICAN_FILE, &mut files)?)
     } else {
@@ -171,7 +204,7 @@ fn certify(args: &CertifyArgs) -> Result<Certificate, Unusable> {
     }
     let sweep_cases = sweep::DEFAULT_CASES * if args.extended { 100 } else { 1 };
 
-    let bar = progress(8);
+    let bar = progress(9);
     let mut tally = Tally::new(args.tighten);
     let mut suites = Vec::new();
     let mut map = Vec::new();
@@ -253,6 +286,23 @@ fn certify(args: &CertifyArgs) -> Result<Certificate, Unusable> {
         calor::MAX_ITERATIONS
     ));
     suites.push(info);
+    bar.inc(1);
+
+    bar.set_message("near expiry (black/near_expiry.csv)");
+    match &near_expiry_cases {
+        Some(cases) => {
+            check_near_expiry(cases, &mut tally);
+            let mut info = SuiteInfo::read("near_expiry", NEAR_EXPIRY_FILE, cases.len());
+            let unchecked = cases.iter().filter(|c| !near_expiry::claimed(c)).count();
+            info.note = Some(format!(
+                "in ulps of the value, not scaled by κ; {unchecked} in-the-money rows with \
+                 carry are not checked (their intrinsic value, the difference of the two \
+                 rounded discounted legs, carries half an ulp of the strike)"
+            ));
+            suites.push(info);
+        }
+        None => suites.push(SuiteInfo::skipped("near_expiry", NEAR_EXPIRY_FILE)),
+    }
     bar.inc(1);
 
     bar.set_message("textbook (textbook/european.csv)");

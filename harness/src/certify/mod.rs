@@ -8,6 +8,7 @@ pub mod heat;
 pub mod identity;
 pub mod implied;
 pub mod ladder;
+pub mod near_expiry;
 pub mod region;
 pub mod report;
 pub mod sweep;

@@ -169,12 +169,13 @@ pub struct Certificate {
 }
 
 /// Every tolerance entry, in the order of `tolerance.rs`.
-pub const TOLERANCES: [&Tolerance; 16] = [
+pub const TOLERANCES: [&Tolerance; 17] = [
     &tolerance::PRICE,
     &tolerance::GREEK,
     &tolerance::THIRD_ORDER,
     &tolerance::IMPLIED_VOL,
     &tolerance::REPRICING,
+    &tolerance::NEAR_EXPIRY,
     &tolerance::TEXTBOOK,
     &tolerance::PRINTED,
     &tolerance::AMERICAN,
