@@ -10,9 +10,10 @@
 //! G = P + h·Q·Y with P = Σ_j t^(2j)·p_(2j+1)/(2j + 1)! and Q likewise. The
 //! series Q is e^(t²/2)·sinh(ht)/(ht) (sympy, to the order kept), so that
 //! b = s·[b′·P + h·Q̂·Φ(h)], Q̂ = sinh(ht)/(ht) = Σ_j (ht)^(2j)/(2j + 1)!,
-//! and ht = x/2. Near the money the two Φ terms of the central formula cancel
-//! to about b/Φ(h + t), some 1/t; the two terms here cancel only as h falls
-//! towards −2 (condition number below 16 for h ≥ −2.25, mpmath scan).
+//! and ht = x/2. Near the money the two Φ terms of the central formula lose a
+//! factor of about e^(ht)·Φ(h + t)/b, some 1/t, to cancellation; the two
+//! terms here cancel only as h falls towards −2 (condition number below 16 for
+//! h ≥ −2.25, mpmath scan).
 //!
 //! # Source
 //! P. Jäckel, "Let's be rational", *Wilmott* 2015(75), 40–53 (a small-t
