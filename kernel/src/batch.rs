@@ -390,8 +390,7 @@ fn lane(
     let t = 0.5 * s;
     // Near expiry the scalar path sums b from its series in t, where these two
     // Φ terms would cancel to about 1/t: those elements take it.
-    let central =
-        h + t >= -2.0 && h - t >= -12.0 && !black::small_t::applies(h, t, black::ERFCX_BELOW);
+    let central = h + t >= -2.0 && h - t >= -12.0 && !black::small_t::applies(h, t);
     let near = vector::norm_cdf(h + t);
     let far = vector::norm_cdf(h - t);
     let otm = (small * near - large * far).max(0.0);

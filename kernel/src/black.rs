@@ -47,7 +47,7 @@ use crate::normal::{norm_cdf, scaled_erfc_parts, two_product, two_sum};
 /// difference amplifies that again by |h|/s. The erfcx form applies the common
 /// factor exp(−(h² + t²)/2) after the difference instead, where erfcx itself is
 /// insensitive to its argument.
-pub(crate) const ERFCX_BELOW: f64 = -2.0;
+const ERFCX_BELOW: f64 = -2.0;
 
 /// True where the normalised price is evaluated through erfcx.
 pub(crate) fn erfcx_wing(h: f64, t: f64) -> bool {
@@ -238,7 +238,7 @@ pub(crate) fn otm_parts(abs_x: f64, s: f64, small: f64, large: f64) -> (f64, f64
     } else {
         (small * norm_cdf(h + t), large * norm_cdf(h - t))
     };
-    let value = if small_t::applies(h, t, ERFCX_BELOW) {
+    let value = if small_t::applies(h, t) {
         small_t_value(h, t, small, large)
     } else {
         (near - far).max(0.0)
@@ -260,7 +260,7 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
     let t = 0.5 * s;
     if erfcx_wing(h, t) {
         wing_value(h, t, small, large)
-    } else if small_t::applies(h, t, ERFCX_BELOW) {
+    } else if small_t::applies(h, t) {
         small_t_value(h, t, small, large)
     } else {
         (small * norm_cdf(h + t) - large * norm_cdf(h - t)).max(0.0)
@@ -271,7 +271,7 @@ pub(crate) fn otm_value(abs_x: f64, s: f64, small: f64, large: f64) -> f64 {
 /// in t ([`small_t::normalised`]), where the two Φ terms of the central
 /// formula would cancel to about 1/t.
 fn small_t_value(h: f64, t: f64, small: f64, large: f64) -> f64 {
-    small_t::normalised(h, t) * (libm::sqrt(small) * libm::sqrt(large))
+    small_t::normalised(h, t).0 * (libm::sqrt(small) * libm::sqrt(large))
 }
 
 /// [`otm_value`] in the lower wing. Kept out of line: the central formula's

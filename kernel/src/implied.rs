@@ -61,11 +61,11 @@ mod blocks;
 
 pub(crate) use blocks::solve_in_blocks;
 
-use crate::black::{erfcx_wing, small_t, Setup, ERFCX_BELOW};
+use crate::black::{erfcx_wing, small_t, Setup};
 use crate::contract::{finite, Contract, Market};
 use crate::elementary::exp;
 use crate::error::{Error, Field};
-use crate::normal::{erfc_with_square, norm_cdf, scaled_erfc, two_product, INV_SQRT_2PI};
+use crate::normal::{erfc_with_square, norm_cdf, scaled_erfc, INV_SQRT_2PI};
 
 /// The most Householder iterations [`implied_vol`] ever takes.
 pub const MAX_ITERATIONS: u32 = 3;
@@ -429,14 +429,16 @@ impl Target {
                     * (scaled_erfc(-(h + t) * FRAC_1_SQRT_2)
                         - scaled_erfc((t - h) * FRAC_1_SQRT_2));
                 (m, decay, INV_SQRT_2PI / m)
-            } else if small_t::applies(h, t, ERFCX_BELOW) {
-                // b from its series in t (black::small_t), without the Φ
-                // terms' cancellation.
-                let m = small_t::normalised(h, t);
-                (m, 0.0, INV_SQRT_2PI * exp(-decay) / m)
             } else {
-                let m = self.b_max * norm_cdf(h + t) - norm_cdf(h - t) * self.inv_b_max;
-                (m, 0.0, INV_SQRT_2PI * exp(-decay) / m)
+                // Near expiry b comes from its series in t (black::small_t),
+                // without the two Φ terms' cancellation, and its vega with it.
+                let (m, density) = if small_t::applies(h, t) {
+                    small_t::normalised(h, t)
+                } else {
+                    let m = self.b_max * norm_cdf(h + t) - norm_cdf(h - t) * self.inv_b_max;
+                    (m, INV_SQRT_2PI * exp(-decay))
+                };
+                (m, 0.0, density / m)
             };
             (
                 -(libm::log(m) - e - ln_beta) / r,
@@ -461,7 +463,7 @@ impl Target {
         let h = self.x * inv_s;
         let t = 0.5 * s;
         let decay = 0.5 * (h * h + t * t);
-        if small_t::applies(h, t, ERFCX_BELOW) {
+        if small_t::applies(h, t) {
             let nu = self.small_t_residual(h, t, inv_s);
             return reverted_step(nu, &reversion_coefficients(0.5 * h * h, t * t));
         }
@@ -490,10 +492,9 @@ impl Target {
     #[inline(never)]
     fn small_t_residual(&self, h: f64, t: f64, inv_s: f64) -> f64 {
         let (p, q) = small_t::polynomials(h, t);
-        // h² split exactly, as in small_t::normalised: near the root the
-        // factor's rounding becomes ν's, up to 1/G ≈ 8 times b's relative error.
-        let (square, tail) = two_product(h, h);
-        let factor = SQRT_2PI * exp(0.5 * (square + t * t)) * (1.0 + 0.5 * tail);
+        // Near the root the factor's rounding becomes ν's, up to 1/G ≈ 8 times
+        // b's relative error: its argument is split exactly.
+        let factor = SQRT_2PI * small_t::gaussian(h, t, 1.0);
         factor * (self.beta * inv_s - h * q * norm_cdf(h)) - p
     }
 

@@ -25,6 +25,7 @@
 //! t < 0.05 and h in [−2.25, 0] (mpmath scan). Evaluation: a few ulps, up to
 //! the condition number above times the ulps of Φ(h) deep in.
 
+use super::ERFCX_BELOW;
 use crate::elementary::exp;
 use crate::normal::{norm_cdf, two_product, INV_SQRT_2PI};
 
@@ -37,10 +38,10 @@ use crate::normal::{norm_cdf, two_product, INV_SQRT_2PI};
 const SMALL_T_BELOW: f64 = 0.05;
 
 /// True where the series gives the out-of-the-money value: t below
-/// [`SMALL_T_BELOW`] and h + t at or above `wing_below` (the erfcx wing's edge).
+/// [`SMALL_T_BELOW`], outside the erfcx wing.
 #[inline]
-pub(crate) fn applies(h: f64, t: f64, wing_below: f64) -> bool {
-    t < SMALL_T_BELOW && h + t >= wing_below
+pub(crate) fn applies(h: f64, t: f64) -> bool {
+    t < SMALL_T_BELOW && h + t >= ERFCX_BELOW
 }
 
 /// (P, Q̂) with b = s·[b′·P + h·Q̂·Φ(h)] (module documentation).
@@ -65,16 +66,25 @@ pub(crate) fn polynomials(h: f64, t: f64) -> (f64, f64) {
     (p, q)
 }
 
-/// b(x, s) = s·[b′·P + h·Q̂·Φ(h)] for h = x/s, t = s/2 where [`applies`].
+/// e^(sign·(h² + t²)/2) for sign ±1, with h² split exactly: the series' two
+/// terms cancel (up to 16 as h falls towards −2), which amplifies the
+/// factor's rounding, and would amplify that of its argument (ε·h²/2) too.
 #[inline]
-pub(crate) fn normalised(h: f64, t: f64) -> f64 {
-    let (p, q) = polynomials(h, t);
-    // h² split exactly: the exponential's rounding is amplified by the two
-    // terms' cancellation (up to 16 as h falls towards −2), and so would the
-    // rounding of its argument (ε·h²/2) be.
+pub(crate) fn gaussian(h: f64, t: f64, sign: f64) -> f64 {
     let (square, tail) = two_product(h, h);
-    let density = INV_SQRT_2PI * exp(-0.5 * (square + t * t)) * (1.0 - 0.5 * tail);
-    ((2.0 * t) * (density * p + h * q * norm_cdf(h))).max(0.0)
+    exp(sign * 0.5 * (square + t * t)) * (1.0 + sign * 0.5 * tail)
+}
+
+/// (b, b′): b(x, s) = s·[b′·P + h·Q̂·Φ(h)] for h = x/s, t = s/2 where
+/// [`applies`], and its vega b′ = exp(−(h² + t²)/2)/√(2π).
+#[inline]
+pub(crate) fn normalised(h: f64, t: f64) -> (f64, f64) {
+    let (p, q) = polynomials(h, t);
+    let density = INV_SQRT_2PI * gaussian(h, t, -1.0);
+    (
+        ((2.0 * t) * (density * p + h * q * norm_cdf(h))).max(0.0),
+        density,
+    )
 }
 
 #[cfg(test)]
