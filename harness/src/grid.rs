@@ -8,7 +8,7 @@ use clap::{Args, ValueEnum};
 use serde::Serialize;
 
 use crate::cli::OptionArgs;
-use crate::price::{significant, TABLE_DIGITS};
+use crate::price::{exact, significant, TABLE_DIGITS};
 
 /// Inputs of `calor grid`.
 #[derive(Debug, Clone, Copy, Args)]
@@ -179,12 +179,12 @@ fn table(report: &Report) -> String {
     let (c, m) = (&report.contract, &report.market);
     let mut out = format!(
         "{style} {kind} on the grid: spot {} strike {} expiry {} y rate {} dividend_yield {} vol {}{}\n",
-        m.spot,
-        c.strike,
-        c.expiry,
-        m.rate,
-        m.dividend_yield,
-        report.vol,
+        exact(m.spot),
+        exact(c.strike),
+        exact(c.expiry),
+        exact(m.rate),
+        exact(m.dividend_yield),
+        exact(report.vol),
         if report.richardson { ", Richardson" } else { "" },
     );
     if let Some(exact) = report.closed_form {

@@ -4,7 +4,7 @@
 use serde::Serialize;
 
 use crate::cli::ImpliedArgs;
-use crate::price::{significant, TABLE_DIGITS};
+use crate::price::{exact, significant, TABLE_DIGITS};
 
 /// The JSON form of one implied-volatility solve.
 #[derive(Debug, Serialize)]
@@ -56,12 +56,12 @@ pub fn run(args: &ImpliedArgs) -> Result<String, String> {
          implied vol       {}\n\
          iterations        {} of at most {}\n\
          repricing error   {} ({} ulp of the premium)",
-        market.spot,
-        contract.strike,
-        contract.expiry,
-        market.rate,
-        market.dividend_yield,
-        args.premium,
+        exact(market.spot),
+        exact(contract.strike),
+        exact(contract.expiry),
+        exact(market.rate),
+        exact(market.dividend_yield),
+        exact(args.premium),
         significant(solved.vol, TABLE_DIGITS),
         solved.iterations,
         calor::MAX_ITERATIONS,

@@ -75,7 +75,12 @@ pub fn table(contract: &Contract, market: &Market, vol: f64, greeks: &Greeks) ->
     };
     let mut out = format!(
         "European {kind}: spot {} strike {} expiry {} y rate {} dividend_yield {} vol {}\n",
-        market.spot, contract.strike, contract.expiry, market.rate, market.dividend_yield, vol,
+        exact(market.spot),
+        exact(contract.strike),
+        exact(contract.expiry),
+        exact(market.rate),
+        exact(market.dividend_yield),
+        exact(vol),
     );
     let values = greeks.named();
     let width = values
@@ -115,9 +120,44 @@ pub fn significant(x: f64, digits: usize) -> String {
     }
 }
 
+/// An input as the user gave it: the shortest decimal that reads back as the
+/// same `f64`, positional for magnitudes in [1e-5, 1e16) and scientific
+/// outside (`1e300`, not three hundred digits).
+pub fn exact(x: f64) -> String {
+    let magnitude = x.abs();
+    if x.is_finite() && x != 0.0 && !(1e-5..1e16).contains(&magnitude) {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn format_exact_reads_back() {
+        assert_eq!(exact(42.0), "42");
+        assert_eq!(
+            exact(0.000_114_155_251_141_552_51),
+            "0.00011415525114155251"
+        );
+        assert_eq!(exact(1e300), "1e300");
+        assert_eq!(exact(-2.5e-300), "-2.5e-300");
+        assert_eq!(exact(0.0), "0");
+        for x in [
+            1e300,
+            2.5e-300,
+            0.1,
+            1e16,
+            9.999_999_999_999_998e15,
+            1e-5,
+            9.9e-6,
+        ] {
+            assert_eq!(exact(x).parse::<f64>().ok(), Some(x), "{x:e}");
+        }
+    }
 
     #[test]
     fn format_significant_positional() {

@@ -121,6 +121,23 @@ fn cli_price_table_labels() {
     assert!(price_line.contains("4.75942239287"), "{price_line}");
 }
 
+#[test]
+fn cli_price_header_extreme_inputs() {
+    // The header echoes the inputs as they read back: 1e300, not 301 digits.
+    let out = price(
+        "call",
+        &["--spot", "1e300", "--strike", "2.5e299", "--rate", "1e-7"],
+    );
+    assert!(out.status.success());
+    let text = String::from_utf8(out.stdout).expect("UTF-8 table");
+    let header = text.lines().next().unwrap_or_default();
+    assert!(
+        header.contains("spot 1e300 strike 2.5e299 ") && header.contains("rate 1e-7 "),
+        "{header}"
+    );
+    assert!(header.len() < 120, "{header}");
+}
+
 /// Byte offset where the second column (the value) ends, for every line but the header.
 fn value_column_ends(text: &str) -> Vec<usize> {
     text.lines()
