@@ -238,6 +238,37 @@ NEAR_EXPIRY_Z = (0.0, 0.25, -0.25, 1.0, -1.0, 1.9, -1.9)
 NEAR_EXPIRY_CARRIES = ((0.0, 0.0), (0.05, 0.02))
 
 
+# ... then random options over the same region, drawn where the grid's rows
+# are sparse: t up to 0.3, |z| up to 2.2 (beyond about 2 the erfcx wing
+# begins), strikes on both sides, half of them with carry.
+NEAR_EXPIRY_SAMPLED = 2440
+NEAR_EXPIRY_SAMPLED_VOLS = (0.005, 1.2)
+NEAR_EXPIRY_SAMPLED_Z = 2.2
+NEAR_EXPIRY_SAMPLED_CARRY = ((0.0, 0.1), (0.0, 0.05))
+
+
+def near_expiry_sampled_rows():
+    rng, rows = Random('calor-near-expiry-1'), []
+    while len(rows) < NEAR_EXPIRY_SAMPLED:
+        kind = 'call' if rng.random() < 0.5 else 'put'
+        T = log_uniform(rng, HOUR, NEAR_EXPIRY_EXPIRIES[-1])
+        v = log_uniform(rng, *NEAR_EXPIRY_SAMPLED_VOLS)
+        z = NEAR_EXPIRY_SAMPLED_Z * (2.0 * rng.random() - 1.0)
+        (r_lo, r_hi), (q_lo, q_hi) = NEAR_EXPIRY_SAMPLED_CARRY
+        r = r_lo + (r_hi - r_lo) * rng.random()
+        q = q_lo + (q_hi - q_lo) * rng.random()
+        if rng.random() < 0.5:
+            r, q = 0.0, 0.0
+        S = 100.0
+        strike = float(mpf(S) * mp.exp((mpf(r) - mpf(q)) * mpf(T)
+                                       - mpf(z) * mpf(v) * mp.sqrt(mpf(T))))
+        inputs = (S, strike, T, r, q, v)
+        row = implied_row(kind, inputs)
+        if row:
+            rows.append(['near_expiry_sampled', kind] + [repr(a) for a in inputs] + row)
+    return rows
+
+
 def near_expiry_rows():
     rows = []
     for T in NEAR_EXPIRY_EXPIRIES:
@@ -252,6 +283,7 @@ def near_expiry_rows():
                         row = implied_row(kind, inputs)
                         if row:
                             rows.append(['near_expiry', kind] + [repr(a) for a in inputs] + row)
+    rows.extend(near_expiry_sampled_rows())
     return [[f'n{i:05d}'] + r for i, r in enumerate(rows, 1)]
 
 

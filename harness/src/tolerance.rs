@@ -73,12 +73,13 @@ pub const REPRICING: Tolerance = Tolerance {
 pub const NEAR_EXPIRY: Tolerance = Tolerance {
     quantity: "near_expiry",
     limit: 64.0,
-    reason: "from t = σ√T/2 = 0.05 on, the kernel takes the two Φ terms, which cancel to at \
-             most about 30 there (at h = −2.15) and so lose up to about 60 ulps; below it the \
+    reason: "below t = σ√T/2 = 0.05, and below 0.1 where h + t < −1, the kernel sums the \
              small-t series: its terms cancel to at most 16 (h = −2.25), on the ulps of Φ(h) \
              and the exponential, plus the rounding of s = σ√T and h = x/s, which ln V \
-             amplifies by |h|·(|h| + 1) (about 5 at h = −1.9); the implied vol adds the half \
-             ulp of the premium over vega, and the repricing vega times the vol's error",
+             amplifies by |h|·(|h| + 1) (about 5 at h = −1.9); elsewhere the two Φ terms, which \
+             cancel to at most about 12 there and lose up to about 50 ulps (h = −1, t = 0.05), \
+             or erfcx below h + t = −1; the implied vol adds the half ulp of the premium over \
+             vega, and the repricing vega times the vol's error",
 };
 
 /// Worked examples: |ours − recomputed| in units of ε·max(1, |recomputed|).

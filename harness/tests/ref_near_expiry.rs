@@ -9,20 +9,22 @@ use calor_harness::certify::near_expiry::{claimed, measure};
 use calor_harness::certify::Worst;
 use calor_harness::tolerance::NEAR_EXPIRY;
 
-/// Below this t = σ√T/2 the kernel sums the normalised price from its series
-/// in t (`black::small_t`); at and above it, from the two Φ terms.
-const SERIES_BELOW: f64 = 0.05;
+/// The price is reported in two groups split at this t = σ√T/2: below it the
+/// kernel sums the normalised price from its series in t (`black::small_t`)
+/// where t < 0.05 or h + t < −1, and from the two Φ terms elsewhere; at and
+/// above it, from the two Φ terms (through erfcx below h + t = −1).
+const SERIES_BELOW: f64 = 0.1;
 
 fn cases() -> Vec<ImpliedCase> {
     let cases: Vec<ImpliedCase> = read_table(&default_dir().join("black/near_expiry.csv")).unwrap();
-    assert_eq!(cases.len(), 560, "the grid's size");
+    assert_eq!(cases.len(), 3000, "the grid's 560 rows and 2,440 sampled");
     cases
 }
 
 #[test]
 fn ref_near_expiry_price_in_ulps() {
-    let mut series = Worst::new("price, checked, t < 0.05", NEAR_EXPIRY.limit);
-    let mut central = Worst::new("price, checked, t ≥ 0.05", NEAR_EXPIRY.limit);
+    let mut series = Worst::new("price, checked, t < 0.1", NEAR_EXPIRY.limit);
+    let mut central = Worst::new("price, checked, t ≥ 0.1", NEAR_EXPIRY.limit);
     let mut shown = Worst::new("price, in the money with carry", f64::INFINITY);
     for case in cases() {
         let t = 0.5 * case.vol * case.expiry.sqrt();
@@ -52,7 +54,11 @@ fn ref_near_expiry_implied_round_trip_in_ulps() {
         backward.record(trip.backward, &case.id, detail);
     }
     println!("{forward}\n{backward}");
-    assert!(forward.cases == 400, "400 checked rows, {}", forward.cases);
+    assert!(
+        forward.cases == 2227,
+        "2,227 checked rows, {}",
+        forward.cases
+    );
     assert!(forward.passes(), "{forward:#?}");
     assert!(backward.passes(), "{backward:#?}");
 }

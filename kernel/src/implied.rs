@@ -35,8 +35,9 @@
 //! relative correction δ (s ← s·(1 + δ)) is reverted to degree seven,
 //! δ = ν + R₂ν² + … + R₇ν⁷ with ν = (β − b)/(s·b′), and the last term says
 //! when the step is final. Near the money most quotes then take one step.
-//! Where t < 0.05 (and outside the erfcx wing), b comes from its Taylor series
-//! in t (`black::small_t`), and so does ν = (β − b)/(s·b′): the two Φ
+//! Where t < 0.05, or t < 0.1 and h + t < −1 (and h + t ≥ −2, or |x| < 0.2),
+//! b comes from its Taylor series in t (`black::small_t`), and so does
+//! ν = (β − b)/(s·b′): the two Φ
 //! terms, which cancel to about 1/t there, are never formed.
 //!
 //! # Source
@@ -424,7 +425,7 @@ impl Target {
         if let Objective::LogPrice(ln_beta) = objective {
             // b = m·exp(−e): in the wing the common factor stays apart (e = decay),
             // and b′/b = r cancels it.
-            let (m, e, r) = if erfcx_wing(h, t) {
+            let (m, e, r) = if erfcx_wing(h, t) && !small_t::applies(h, t) {
                 let m = 0.5
                     * (scaled_erfc(-(h + t) * FRAC_1_SQRT_2)
                         - scaled_erfc((t - h) * FRAC_1_SQRT_2));
@@ -495,7 +496,10 @@ impl Target {
         // Near the root the factor's rounding becomes ν's, up to 1/G ≈ 8 times
         // b's relative error: its argument is split exactly.
         let factor = SQRT_2PI * small_t::gaussian(h, t, 1.0);
-        factor * (self.beta * inv_s - h * q * norm_cdf(h)) - p
+        match small_t::wing_term(h, t, q) {
+            Some(term) => factor * (self.beta * inv_s) - term - p,
+            None => factor * (self.beta * inv_s - h * q * norm_cdf(h)) - p,
+        }
     }
 
     /// One iteration from s: the next iterate, its change relative to itself,
