@@ -183,3 +183,26 @@ fn edge_overflow_is_an_error() {
     };
     assert_eq!(price(&put(f64::MAX, 50.0), &m, 0.2), Err(Error::Overflow));
 }
+
+#[test]
+fn edge_wing_near_expiry_with_huge_legs_stays_representable() {
+    // h = −40, t = 1/800, |x| = 0.1: the normalised price (about 10⁻³⁵³)
+    // underflows on its own; √(S·K)·b does not. The erfcx form applies its
+    // Gaussian factor in halves; the series in t (which reaches into the
+    // wing near the money) must not take this option. mpmath 1.3.0 at 50
+    // digits from the f64 inputs below: 2.399089369278992252947693e-54. The
+    // bound is loose (κ is about 1.6·10⁴ here); the failure it guards is 0.
+    let m = Market {
+        spot: 1e300,
+        rate: 0.0,
+        dividend_yield: 0.0,
+    };
+    let got = price(
+        &call(1.1051709180756478e300, 0.01),
+        &m,
+        0.024999999999999998,
+    )
+    .unwrap();
+    let want = 2.399089369278992252947693e-54;
+    assert!((got - want).abs() <= 1e-10 * want, "{got:e}");
+}

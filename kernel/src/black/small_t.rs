@@ -53,6 +53,12 @@ pub(super) const SMALL_T_BELOW: f64 = 0.1;
 /// 414,078 ulps to 398 with it (at h = −5.3; 79 for h in [−2.5, −2]).
 const WING_HT_ABOVE: f64 = -0.1;
 
+/// ... and while h stays above this, so that e^(±(h² + t²)/2) stays well
+/// inside the range of f64 (e^338): further down the erfcx form applies the
+/// factor in halves, and a price whose normalised value would underflow
+/// (legs near 10³⁰⁰) stays representable.
+const WING_H_ABOVE: f64 = -26.0;
+
 /// Below this t the series applies for any h. From it up to
 /// [`SMALL_T_BELOW`] only below h + t = −1 (`black::ERFCX_BELOW_PAST_SERIES`):
 /// above that the two Φ terms lose at most about 50 ulps (at h = −1,
@@ -63,13 +69,13 @@ const ANY_H_BELOW: f64 = 0.05;
 
 /// True where the series gives the out-of-the-money value: t below
 /// [`ANY_H_BELOW`], or below [`SMALL_T_BELOW`] with h + t < −1; outside the
-/// erfcx wing, or within |x| < 0.2 of the money in it. Callers test it before
+/// erfcx wing, or within |x| < 0.2 of the money in it (h > −26). Callers test it before
 /// `black::erfcx_wing`.
 #[inline]
 pub(crate) fn applies(h: f64, t: f64) -> bool {
     t < SMALL_T_BELOW
         && (t < ANY_H_BELOW || h + t < ERFCX_BELOW_PAST_SERIES)
-        && (h + t >= ERFCX_BELOW || h * t > WING_HT_ABOVE)
+        && (h + t >= ERFCX_BELOW || (h * t > WING_HT_ABOVE && h > WING_H_ABOVE))
 }
 
 /// Y(h)·e^(t²/2) = Φ(h)/b′ in the wing (h + t < −2), from erfcx:
