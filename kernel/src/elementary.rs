@@ -85,16 +85,46 @@ pub(crate) fn exp(x: f64) -> f64 {
     }
     let k = (x * LOG2_E + ROUNDER) - ROUNDER;
     let r = (x - k * LN2_HI) - k * LN2_LO;
+    // exp(r) = 1 + r·q(r), q of degree 12: the final sum rounds once.
+    (1.0 + r * exp_quotient(r)) * pow2(k)
+}
+
+/// q(r) = (eʳ − 1)/r by its Taylor polynomial of degree 12, for |r| ≤ ln 2/2.
+#[inline]
+fn exp_quotient(r: f64) -> f64 {
     let [_, c1, c2, c3, c4, c5, c6, c7, c8, c9, c10, c11, c12, c13] = EXP_TAYLOR;
     let r2 = r * r;
     let r4 = r2 * r2;
     let r8 = r4 * r4;
-    // exp(r) = 1 + r·q(r), q of degree 12: the final sum rounds once.
-    let q = ((c1 + c2 * r) + r2 * (c3 + c4 * r))
+    ((c1 + c2 * r) + r2 * (c3 + c4 * r))
         + r4 * ((c5 + c6 * r) + r2 * (c7 + c8 * r))
-        + r8 * (((c9 + c10 * r) + r2 * (c11 + c12 * r)) + r4 * c13);
-    (1.0 + r * q) * pow2(k)
+        + r8 * (((c9 + c10 * r) + r2 * (c11 + c12 * r)) + r4 * c13)
 }
+
+/// (eˣ, eˣ − 1), the second without the cancellation of subtracting 1, for
+/// the discount factors and the intrinsic value.
+///
+/// # Formula
+/// For |x| < ln 2/2, where [`exp`]'s reduction leaves r = x and k = 0,
+/// eˣ − 1 = x·q(x) with [`exp`]'s polynomial q, and eˣ = 1 + x·q(x) as
+/// [`exp`] forms it; elsewhere `libm::exp` and `libm::expm1`.
+///
+/// # Accuracy
+/// eˣ as [`exp`]; eˣ − 1 within about an ulp and a half of itself (q's
+/// truncation below 4·10⁻¹⁸, one rounding of the product); `libm::expm1`
+/// outside (`edge_exp_with_minus_one_against_reference`).
+#[inline]
+pub(crate) fn exp_with_minus_one(x: f64) -> (f64, f64) {
+    if libm::fabs(x) < HALF_LN2 {
+        let minus_one = x * exp_quotient(x);
+        (1.0 + minus_one, minus_one)
+    } else {
+        (libm::exp(x), libm::expm1(x))
+    }
+}
+
+/// ln 2/2, below which [`exp`]'s reduction leaves its argument as it is.
+const HALF_LN2: f64 = 0.346_573_590_279_972_65;
 
 /// ln(a/b) for b/2 < a < 2b, as 2·atanh(d) with d = (a − b)/(a + b).
 ///
@@ -160,6 +190,30 @@ mod tests {
         assert_eq!(exp(f64::NEG_INFINITY), 0.0);
         assert_eq!(exp(1000.0), f64::INFINITY);
         assert!(exp(f64::NAN).is_nan());
+    }
+
+    #[test]
+    fn edge_exp_with_minus_one_against_reference() {
+        // eˣ − 1 at exact f64 arguments, from mpmath 1.3.0 at 40 digits,
+        // rounded to 21: tiny, discount-like, both ends of the polynomial's
+        // interval and beyond it (libm).
+        let cases = [
+            (-1e-10, -9.999_999_999_500_000_364_34e-11),
+            (-2.5e-6, -2.499_996_875_002_604_369_55e-6),
+            (-0.0125, -0.012_422_199_506_118_572_618),
+            (-0.1, -0.095_162_581_964_040_431_858_6),
+            (-0.3465, -0.292_841_180_712_728_660_709),
+            (0.3465, 0.414_109_493_830_362_415_098),
+            (-0.5, -0.393_469_340_287_366_576_396),
+            (-15.0, -0.999_999_694_097_679_498_174),
+        ];
+        for (x, want) in cases {
+            let (e, minus_one) = exp_with_minus_one(x);
+            let ulps = (minus_one - want).abs() / (want.abs() * f64::EPSILON);
+            assert!(ulps <= 1.5, "exp({x}) − 1 off by {ulps} ulps");
+            let e_ulps = (e - exp(x)).abs() / (exp(x) * f64::EPSILON);
+            assert!(e_ulps <= 1.0, "exp({x}) off by {e_ulps} ulps");
+        }
     }
 
     #[test]

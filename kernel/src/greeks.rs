@@ -148,11 +148,7 @@ impl Terms {
         // consequence.
         let (small, large) = p.otm_legs();
         let (otm, near, far) = otm_parts(libm::fabs(p.x), p.s, small, large);
-        let price = if p.in_the_money() {
-            otm + (large - small).max(0.0)
-        } else {
-            otm
-        };
+        let price = otm + p.intrinsic();
         let (spot_term, strike_term) = match (p.in_the_money(), p.omega > 0.0) {
             (false, true) => (near, far),
             (false, false) => (far, near),

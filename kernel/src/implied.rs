@@ -51,8 +51,8 @@
 //!
 //! # Accuracy
 //! |σ̂ − σ| ≤ 16·(1+κ)·ε·V/vega + 4·ε·σ for a premium rounded from the exact price
-//! at σ (tolerance entry `implied_vol`). Near the money and near expiry, out of
-//! the money or without carry, also |σ̂ − σ| ≤ 64·ε·(σ + V/vega), and the
+//! at σ (tolerance entry `implied_vol`). Near the money and near expiry also
+//! |σ̂ − σ| ≤ 64·ε·(σ + V/vega), and the
 //! repricing error within 64 ulps of the premium (tolerance entry
 //! `near_expiry`).
 
